@@ -1,0 +1,5 @@
+import sys
+
+from partpick.cli import main
+
+sys.exit(main())

@@ -1,0 +1,15 @@
+"""Error types shared by every layer.
+
+`InputError` is bad input from the user (a field, a CSV cell, a TOML key, a
+command-line argument); the CLI turns it into one line on stderr and exit 2.
+`LibraryError` is a library that cannot be used (busy, unreadable, newer
+schema, not a partpick library); the CLI exits 1 with its message.
+"""
+
+
+class InputError(ValueError):
+    """Bad user input; the message names the file, line or field and the value."""
+
+
+class LibraryError(RuntimeError):
+    """A library that cannot be opened, read or written right now."""

@@ -1,0 +1,118 @@
+"""The database: declarative base, engine and sessionmaker, in one place.
+
+SQLite is the default (a file per library); any SQLAlchemy URL works
+(``postgresql+psycopg://...`` for a team library). Only the connection set-up
+below knows which dialect it talks to; the models and queries are portable.
+
+SQLite set-up, per connection: foreign keys on, WAL journal (readers never
+block the writer), a busy timeout so that a second writer waits and then gets
+a clear "library is busy" instead of an error, and transactions that take the
+write lock when they begin (``BEGIN IMMEDIATE``) for writing units of work —
+a deferred transaction that upgrades from read to write cannot wait for the
+lock and would fail at once.
+"""
+
+from __future__ import annotations
+
+import contextlib
+from pathlib import Path
+
+from sqlalchemy import MetaData, create_engine, event, exc
+from sqlalchemy.engine import URL, Engine, make_url
+from sqlalchemy.orm import DeclarativeBase, Session, sessionmaker
+
+from partpick.errors import LibraryError
+
+__all__ = ["Base", "to_url", "sqlite_path", "make_engine", "make_sessionmakers", "library_errors"]
+
+# Names for constraints, so that migrations can refer to them on every backend.
+NAMING_CONVENTION = {
+    "ix": "ix_%(column_0_label)s",
+    "uq": "uq_%(table_name)s_%(column_0_name)s",
+    "ck": "ck_%(table_name)s_%(constraint_name)s",
+    "fk": "fk_%(table_name)s_%(column_0_name)s_%(referred_table_name)s",
+    "pk": "pk_%(table_name)s",
+}
+
+DEFAULT_BUSY_TIMEOUT_S = 5.0
+
+
+class Base(DeclarativeBase):
+    metadata = MetaData(naming_convention=NAMING_CONVENTION)
+
+
+def to_url(location: str | Path) -> URL:
+    """The SQLAlchemy URL of a library location: a file path or a URL."""
+    text = str(location)
+    if "://" in text:
+        try:
+            return make_url(text)
+        except exc.ArgumentError as error:
+            raise LibraryError(f"{text!r} is not a database URL ({error})") from error
+    return URL.create("sqlite", database=str(Path(text).expanduser().resolve()))
+
+
+def sqlite_path(url: URL) -> Path | None:
+    """The file of a SQLite URL, or None for a server database or an in-memory one."""
+    if url.get_backend_name() != "sqlite":
+        return None
+    database = url.database or ""
+    if database in ("", ":memory:") or database.startswith("file:"):
+        return None
+    return Path(database)
+
+
+def make_engine(url: URL, *, busy_timeout_s: float = DEFAULT_BUSY_TIMEOUT_S) -> Engine:
+    """An engine for the library at ``url``, set up as described in the module docstring."""
+    if url.get_backend_name() != "sqlite":
+        return create_engine(url, pool_pre_ping=True)
+    engine = create_engine(url, connect_args={"timeout": busy_timeout_s})
+    busy_ms = int(busy_timeout_s * 1000)
+
+    @event.listens_for(engine, "connect")
+    def _on_connect(dbapi_connection, _record):
+        # Let SQLAlchemy, not the sqlite3 module, decide where transactions begin.
+        dbapi_connection.isolation_level = None
+        cursor = dbapi_connection.cursor()
+        try:
+            cursor.execute("PRAGMA foreign_keys = ON")
+            cursor.execute(f"PRAGMA busy_timeout = {busy_ms}")
+            mode = cursor.execute("PRAGMA journal_mode").fetchone()[0]
+            if mode.lower() != "wal":
+                cursor.execute("PRAGMA journal_mode = WAL")
+        finally:
+            cursor.close()
+
+    @event.listens_for(engine, "begin")
+    def _on_begin(connection):
+        writing = connection.get_execution_options().get("partpick_write", False)
+        connection.exec_driver_sql("BEGIN IMMEDIATE" if writing else "BEGIN")
+
+    return engine
+
+
+def make_sessionmakers(engine: Engine) -> tuple[sessionmaker[Session], sessionmaker[Session]]:
+    """(reading, writing) sessionmakers; a writing session takes the write lock at its start."""
+    reading = sessionmaker(bind=engine, expire_on_commit=False)
+    writing = sessionmaker(bind=engine.execution_options(partpick_write=True), expire_on_commit=False)
+    return reading, writing
+
+
+@contextlib.contextmanager
+def library_errors(location: str, action: str):
+    """Turn database failures into `LibraryError` with a message a user can act on."""
+    try:
+        yield
+    except exc.OperationalError as error:
+        text = str(error.orig) if error.orig is not None else str(error)
+        lowered = text.lower()
+        if "locked" in lowered or "busy" in lowered or "lock timeout" in lowered:
+            raise LibraryError(
+                f"library {location} is busy: another program is writing to it; try again in a moment"
+            ) from error
+        if "readonly" in lowered or "read-only" in lowered:
+            raise LibraryError(f"library {location} is read-only: cannot {action}") from error
+        raise LibraryError(f"library {location}: cannot {action}: {text.strip()}") from error
+    except exc.DatabaseError as error:
+        text = str(error.orig) if error.orig is not None else str(error)
+        raise LibraryError(f"library {location}: cannot {action}: {text.strip()}") from error

@@ -1,0 +1,192 @@
+"""Fit of the forward model (Is, n, Rs) to datasheet (IF, VF) points."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import least_squares
+
+from partpick.physics.constants import BOLTZMANN, ELEMENTARY_CHARGE, T0_K
+from partpick.physics.junction import (
+    PN_BAND_GAP_EV,
+    PN_TEMPERATURE_EXPONENT,
+    forward_voltage,
+    saturation_current_at,
+)
+
+__all__ = ["ForwardFit", "FitRefused", "fit_forward_model", "MAX_RESIDUAL_V", "IDEALITY_BOUNDS"]
+
+MAX_RESIDUAL_V = 5e-3
+"""A fit whose worst point misses by more than this is refused [V] (SPEC §3)."""
+
+IDEALITY_BOUNDS = (1.0, 4.0)
+_LOG_IS_BOUNDS = (np.log(1e-30), np.log(1e-1))
+_RS_MAX_OHM = 1e3
+# A parameter within this fraction of the width of its bounds counts as "on the bound".
+_ON_BOUND = 1e-4
+
+
+class FitRefused(ValueError):
+    """The points cannot give a physical model; the message says why."""
+
+
+@dataclass(frozen=True)
+class ForwardFit:
+    """Result of `fit_forward_model`, reported at 25 °C.
+
+    Attributes
+    ----------
+    saturation_current : float
+        Is at 25 °C [A].
+    ideality : float
+        n [-].
+    series_resistance : float
+        Rs [ohm] (0 and not fitted for two points).
+    residuals_V : ndarray
+        Model minus datasheet voltage at each point, in the order given [V].
+    residual_max_V : float
+        Largest absolute residual [V].
+    fitted_series_resistance : bool
+        False when only two points were given and Rs = 0 was assumed.
+    note : str
+        What was assumed, in words.
+    """
+
+    saturation_current: float
+    ideality: float
+    series_resistance: float
+    residuals_V: np.ndarray
+    residual_max_V: float
+    fitted_series_resistance: bool
+    note: str
+
+
+def _checked_points(current, voltage):
+    I = np.asarray(current, dtype=float).ravel()
+    V = np.asarray(voltage, dtype=float).ravel()
+    if I.shape != V.shape:
+        raise FitRefused(f"got {I.size} currents but {V.size} voltages")
+    if I.size < 2:
+        raise FitRefused(f"a fit needs at least two (IF, VF) points, got {I.size}")
+    if not (np.all(np.isfinite(I)) and np.all(np.isfinite(V))):
+        raise FitRefused("every point must be a finite number")
+    if np.any(I <= 0):
+        raise FitRefused(f"forward currents must be > 0, got {float(I[I <= 0][0])!r} A")
+    if np.any(V <= 0):
+        raise FitRefused(f"forward voltages must be > 0, got {float(V[V <= 0][0])!r} V")
+    order = np.argsort(I, kind="stable")
+    Is_sorted, Vs_sorted = I[order], V[order]
+    if np.any(np.diff(Is_sorted) <= 0):
+        raise FitRefused("two points have the same current")
+    if np.any(np.diff(Vs_sorted) <= 0):
+        k = int(np.argmax(np.diff(Vs_sorted) <= 0))
+        raise FitRefused(
+            f"points are not monotonic: VF must rise with IF, but {Vs_sorted[k + 1]:g} V at "
+            f"{Is_sorted[k + 1]:g} A is not above {Vs_sorted[k]:g} V at {Is_sorted[k]:g} A"
+        )
+    return I, V
+
+
+def fit_forward_model(current, voltage, temperature=T0_K, band_gap=PN_BAND_GAP_EV,
+                      temperature_exponent=PN_TEMPERATURE_EXPONENT) -> ForwardFit:
+    """Fit Is, n and Rs of V = n·VT·ln(1 + I/Is) + I·Rs to datasheet points.
+
+    Parameters
+    ----------
+    current : array_like
+        Forward currents of the points [A].
+    voltage : array_like
+        Forward voltages of the points [V].
+    temperature : float
+        Junction temperature the points were read at [K]; the result is moved
+        to 25 °C with `saturation_current_at`.
+    band_gap, temperature_exponent : float
+        Eg [eV] and m [-] used for that move.
+
+    Returns
+    -------
+    ForwardFit
+
+    Raises
+    ------
+    FitRefused
+        Fewer than two points, non-finite or non-positive values, VF not rising
+        with IF, n ending on its bound 1 ≤ n ≤ 4, Rs on its upper bound, or a
+        worst residual above 5 mV.
+
+    Notes
+    -----
+    Bounded nonlinear least squares (`scipy.optimize.least_squares`, trust-region
+    reflective) on the voltage residuals with ln Is as the variable, which makes
+    the problem well scaled over twenty decades of Is. Two points determine Is
+    and n exactly with Rs = 0; three or more fit Is, n and Rs. Several starting
+    points are tried and the best kept.
+    """
+    I, V = _checked_points(current, voltage)
+    T = float(temperature)
+    if not np.isfinite(T) or T <= 0:
+        raise FitRefused(f"temperature must be a positive number of kelvin, got {temperature!r}")
+    VT = BOLTZMANN * T / ELEMENTARY_CHARGE
+    with_rs = I.size >= 3
+
+    def model(x):
+        rs = x[2] if with_rs else 0.0
+        return forward_voltage(I, np.exp(x[0]), x[1], rs, T)
+
+    def residual(x):
+        return model(x) - V
+
+    # Starting points: the two-point Rs = 0 solution through the two lowest
+    # currents (where Rs matters least), with a spread of Rs guesses.
+    lo, hi = np.argsort(I)[:2]
+    n0 = np.clip((V[hi] - V[lo]) / (VT * np.log(I[hi] / I[lo])), 1.05, 3.9)
+    log_is0 = np.log(I[lo]) - np.log(np.expm1(min(V[lo] / (n0 * VT), 700.0)))
+    log_is0 = float(np.clip(log_is0, _LOG_IS_BOUNDS[0] + 1, _LOG_IS_BOUNDS[1] - 1))
+    lower = [_LOG_IS_BOUNDS[0], IDEALITY_BOUNDS[0]] + ([0.0] if with_rs else [])
+    upper = [_LOG_IS_BOUNDS[1], IDEALITY_BOUNDS[1]] + ([_RS_MAX_OHM] if with_rs else [])
+    rs_scale = float(np.max(V) / np.max(I))
+    starts = []
+    for n_start in (n0, 1.2, 2.0):
+        ls = float(np.clip(np.log(I[lo]) - V[lo] / (n_start * VT), lower[0] + 1, upper[0] - 1))
+        if with_rs:
+            for rs_start in (0.0, 1e-3 * rs_scale, 0.05 * rs_scale):
+                starts.append([ls, n_start, rs_start])
+        else:
+            starts.append([ls, n_start])
+    starts.insert(0, [log_is0, n0] + ([0.0] if with_rs else []))
+    best = None
+    for x0 in starts:
+        x0 = np.clip(x0, lower, upper)
+        try:
+            sol = least_squares(residual, x0, bounds=(lower, upper), method="trf",
+                                x_scale="jac", xtol=1e-15, ftol=1e-15, gtol=1e-15, max_nfev=2000)
+        except (ValueError, FloatingPointError):
+            continue
+        if best is None or sol.cost < best.cost:
+            best = sol
+    if best is None or not np.all(np.isfinite(best.x)):
+        raise FitRefused("the least-squares solver found no finite solution for these points")
+    x = best.x
+    n = float(x[1])
+    rs = float(x[2]) if with_rs else 0.0
+    residuals = residual(x)
+    worst = float(np.max(np.abs(residuals)))
+    width_n = IDEALITY_BOUNDS[1] - IDEALITY_BOUNDS[0]
+    if n - IDEALITY_BOUNDS[0] < _ON_BOUND * width_n or IDEALITY_BOUNDS[1] - n < _ON_BOUND * width_n:
+        raise FitRefused(
+            f"the fit ends on the ideality bound (n = {n:.4g}, allowed {IDEALITY_BOUNDS[0]:g}–"
+            f"{IDEALITY_BOUNDS[1]:g}): the points do not describe a junction diode"
+        )
+    if with_rs and _RS_MAX_OHM - rs < _ON_BOUND * _RS_MAX_OHM:
+        raise FitRefused(f"the fit ends on the series-resistance bound (Rs = {rs:.4g} Ω)")
+    if worst > MAX_RESIDUAL_V:
+        raise FitRefused(
+            f"the model misses the points by up to {worst * 1e3:.2f} mV (limit {MAX_RESIDUAL_V * 1e3:g} mV)"
+        )
+    is_t = float(np.exp(x[0]))
+    is_25 = float(saturation_current_at(is_t, T0_K, n, band_gap, temperature_exponent, reference_temperature=T))
+    note = "three or more points: Is, n and Rs fitted" if with_rs else "two points: Is and n fitted, Rs = 0 assumed"
+    if abs(T - T0_K) > 1e-9:
+        note += f"; points at {T - 273.15:g} °C, Is moved to 25 °C with Eg = {band_gap:g} eV, m = {temperature_exponent:g}"
+    return ForwardFit(is_25, n, rs, residuals, worst, with_rs, note)

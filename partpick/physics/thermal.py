@@ -1,0 +1,237 @@
+"""Junction temperature: allowed power, forward self-heating, reverse runaway.
+
+JEDEC JESD51 defines RthJA on a standard board in still air; Tj = Ta + P·RthJA.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.special import lambertw
+
+from partpick.physics._validate import finite, nonnegative, positive, scalar_or_array
+from partpick.physics.junction import ForwardModel
+
+__all__ = [
+    "allowed_power",
+    "derated_current",
+    "thermal_resistance_from_rating",
+    "power_rating_from_thermal_resistance",
+    "ForwardOperatingPoint",
+    "self_heated_forward",
+    "ReverseState",
+    "reverse_thermal_state",
+]
+
+
+def allowed_power(ambient, power_rating, tj_max, reference_temperature):
+    """Allowed dissipation at an ambient: flat to the rating temperature, then linear to zero at Tj max.
+
+    Parameters
+    ----------
+    ambient : array_like
+        Ambient temperature Ta [K].
+    power_rating : array_like
+        Pd [W] at and below ``reference_temperature``.
+    tj_max : array_like
+        Maximum junction temperature [K].
+    reference_temperature : array_like
+        Temperature up to which Pd applies (``pd_ref_C``) [K].
+
+    Returns
+    -------
+    float or ndarray
+        Pallow [W], ≥ 0.
+
+    Notes
+    -----
+    Pallow(Ta) = Pd for Ta ≤ Tref, Pd·(Tj max − Ta)/(Tj max − Tref) above, 0 beyond
+    Tj max (the linear derating curve of datasheets; JEDEC JESD51).
+    """
+    Ta = positive("ambient", ambient)
+    Pd = nonnegative("power_rating", power_rating)
+    Tj = positive("tj_max", tj_max)
+    Tref = positive("reference_temperature", reference_temperature)
+    if np.any(Tj <= Tref):
+        raise ValueError(f"tj_max must be above reference_temperature, got {float(np.min(Tj))!r}")
+    fraction = np.clip((Tj - Ta) / (Tj - Tref), 0.0, 1.0)
+    return scalar_or_array(Pd * fraction, ambient, power_rating, tj_max, reference_temperature)
+
+
+def derated_current(ambient, current_rating, tj_max, reference_temperature):
+    """IF(AV) derated the same way as power above its rating temperature [A]; see `allowed_power`."""
+    return allowed_power(ambient, current_rating, tj_max, reference_temperature)
+
+
+def thermal_resistance_from_rating(power_rating, tj_max, reference_temperature):
+    """RthJA = (Tj max − Tref)/Pd [K/W] for a part that gives only Pd."""
+    Pd = positive("power_rating", power_rating)
+    Tj = positive("tj_max", tj_max)
+    Tref = positive("reference_temperature", reference_temperature)
+    return scalar_or_array((Tj - Tref) / Pd, power_rating, tj_max, reference_temperature)
+
+
+def power_rating_from_thermal_resistance(thermal_resistance, tj_max, reference_temperature):
+    """Pd = (Tj max − Tref)/RthJA [W] for a part that gives only RthJA."""
+    Rth = positive("thermal_resistance", thermal_resistance)
+    Tj = positive("tj_max", tj_max)
+    Tref = positive("reference_temperature", reference_temperature)
+    return scalar_or_array((Tj - Tref) / Rth, thermal_resistance, tj_max, reference_temperature)
+
+
+@dataclass(frozen=True)
+class ForwardOperatingPoint:
+    """Self-heated forward state: arrays of the broadcast shape.
+
+    Attributes
+    ----------
+    voltage : ndarray
+        Forward voltage [V] at the solved junction temperature.
+    junction_temperature : ndarray
+        Tj [K]; NaN where ``runaway``.
+    power : ndarray
+        I·V [W].
+    runaway : ndarray of bool
+        True where Tj = Ta + P(Tj)·RthJA has no solution (forward thermal runaway).
+    """
+
+    voltage: np.ndarray
+    junction_temperature: np.ndarray
+    power: np.ndarray
+    runaway: np.ndarray
+
+
+# Beyond this junction temperature the model is far outside any datasheet and
+# the iteration is declared a runaway rather than followed further.
+_RUNAWAY_TEMPERATURE_K = 1500.0
+
+
+def self_heated_forward(model: ForwardModel, current, ambient, thermal_resistance,
+                        *, tolerance=1e-9, max_iterations=60) -> ForwardOperatingPoint:
+    """Solve Tj = Ta + I·V(I, Tj)·RthJA for the forward state, vectorised.
+
+    Parameters
+    ----------
+    model : ForwardModel
+        The part's forward branch (attributes broadcast with the other inputs).
+    current : array_like
+        Forward current [A], ≥ 0.
+    ambient : array_like
+        Ambient temperature [K].
+    thermal_resistance : array_like
+        RthJA [K/W], ≥ 0.
+    tolerance : float
+        Convergence on Tj [K].
+
+    Returns
+    -------
+    ForwardOperatingPoint
+
+    Notes
+    -----
+    Newton's method on g(T) = T − Ta − Rth·I·V(I, T), with
+    g'(T) = 1 − Rth·I·∂V/∂T (`ForwardModel.voltage_temperature_slope`). At small
+    currents ∂V/∂T < 0 and the root is unique and stable; where Rs rises with
+    temperature enough that Rth·I·∂V/∂T ≥ 1, the fixed point is lost (runaway).
+    Plain fixed-point iteration converges only linearly, at rate Rth·I·|∂V/∂T|.
+    """
+    I = nonnegative("current", current)
+    Ta = positive("ambient", ambient)
+    Rth = nonnegative("thermal_resistance", thermal_resistance)
+    shape = np.broadcast_shapes(I.shape, Ta.shape, Rth.shape, *(np.shape(getattr(model, f)) for f in
+                                ("saturation_current", "ideality", "series_resistance", "band_gap",
+                                 "temperature_exponent", "rs_temperature_exponent")))
+    I, Ta, Rth = (np.broadcast_to(x, shape) for x in (I, Ta, Rth))
+    T = Ta + Rth * I * model.voltage(I, Ta)
+    converged = np.zeros(shape, dtype=bool)
+    runaway = np.zeros(shape, dtype=bool)
+    for _ in range(max_iterations):
+        Tc = np.where(runaway, Ta, T)
+        V = model.voltage(I, Tc)
+        g = Tc - Ta - Rth * I * V
+        dg = 1.0 - Rth * I * model.voltage_temperature_slope(I, Tc)
+        lost = dg <= 0
+        step = np.where(lost, 0.0, g / np.where(lost, 1.0, dg))
+        T = np.where(runaway, Ta, Tc - step)
+        runaway |= lost | (T > _RUNAWAY_TEMPERATURE_K)
+        T = np.where(runaway, Ta, np.maximum(T, Ta * 0.5))
+        converged = runaway | (np.abs(step) < tolerance)
+        if converged.all():
+            break
+    else:
+        raise RuntimeError("self_heated_forward: Newton iteration on Tj did not converge")
+    V = model.voltage(I, T)
+    Tj = np.where(runaway, np.nan, T)
+    return ForwardOperatingPoint(voltage=V, junction_temperature=Tj, power=I * V, runaway=runaway)
+
+
+@dataclass(frozen=True)
+class ReverseState:
+    """Reverse-state thermal equilibrium of a blocking diode.
+
+    Attributes
+    ----------
+    junction_temperature : ndarray
+        The stable solution of Tj = Ta + PR(Tj)·RthJA [K]; NaN where none exists.
+    unstable_temperature : ndarray
+        The unstable solution [K] (above it the junction runs away); +inf where
+        PR is zero, NaN where no solution exists.
+    runaway : ndarray of bool
+        True where no stable solution exists.
+    loop_gain : ndarray
+        RthJA·dPR/dTj at the stable solution [-] (< 1 when stable).
+    """
+
+    junction_temperature: np.ndarray
+    unstable_temperature: np.ndarray
+    runaway: np.ndarray
+    loop_gain: np.ndarray
+
+
+def reverse_thermal_state(reverse_power_at_ambient, doubling_interval, ambient, thermal_resistance) -> ReverseState:
+    """Equilibrium junction temperature of a blocking diode whose leakage doubles every ``doubling_interval``.
+
+    Parameters
+    ----------
+    reverse_power_at_ambient : array_like
+        PR = VR·IR(Ta) with the junction at ambient [W].
+    doubling_interval : array_like
+        Temperature rise that doubles the leakage [K].
+    ambient : array_like
+        Ta [K].
+    thermal_resistance : array_like
+        RthJA [K/W].
+
+    Returns
+    -------
+    ReverseState
+
+    Notes
+    -----
+    With PR(Tj) = P0·2^((Tj − Ta)/d) and x = Tj − Ta, the balance x = Rth·P0·e^(c·x),
+    c = ln 2/d, has the solutions x = −W(−a)/c with a = c·Rth·P0: the principal
+    branch W0 gives the stable point, W−1 the unstable one, and for a > 1/e there
+    is none (thermal runaway). The loop gain Rth·dPR/dTj at the stable point is
+    c·x = −W0(−a) < 1.
+    """
+    P0 = nonnegative("reverse_power_at_ambient", reverse_power_at_ambient)
+    d = positive("doubling_interval", doubling_interval)
+    Ta = positive("ambient", ambient)
+    Rth = nonnegative("thermal_resistance", thermal_resistance)
+    P0, d, Ta, Rth = np.broadcast_arrays(P0, d, Ta, Rth)
+    c = np.log(2.0) / d
+    a = c * Rth * P0
+    runaway = a > np.exp(-1.0)
+    arg = -np.where(runaway, 0.0, a)
+    w0 = np.real(lambertw(arg, 0))
+    with np.errstate(divide="ignore"):
+        wm1 = np.where(arg < 0, np.real(lambertw(np.where(arg < 0, arg, -0.1), -1)), -np.inf)
+    stable = Ta - w0 / c
+    unstable = Ta - wm1 / c
+    tj = np.where(runaway, np.nan, stable)
+    unstable = np.where(runaway, np.nan, unstable)
+    gain = np.where(runaway, np.nan, -w0)
+    out = [scalar_or_array(x, reverse_power_at_ambient, doubling_interval, ambient, thermal_resistance)
+           for x in (tj, unstable, runaway, gain)]
+    return ReverseState(out[0], out[1], bool(out[2]) if np.ndim(out[2]) == 0 else out[2], out[3])
