@@ -20,7 +20,7 @@ from partpick.errors import InputError, LibraryError
 EXIT_PASS, EXIT_ERROR, EXIT_BAD_INPUT, EXIT_FAIL = 0, 1, 2, 3
 
 # Subcommand modules, in the order `partpick --help` lists them.
-COMMAND_MODULES = ("check", "fit", "library", "policy", "bench")
+COMMAND_MODULES = ("check", "fit", "library", "policy")
 
 
 class _Parser(argparse.ArgumentParser):
