@@ -94,7 +94,8 @@ class ForwardOperatingPoint:
     power : ndarray
         I·V [W].
     runaway : ndarray of bool
-        True where Tj = Ta + P(Tj)·RthJA has no solution (forward thermal runaway).
+        True where Tj = Ta + P(Tj)·RthJA has no solution below 1500 K (forward
+        thermal runaway, or a balance no datasheet part could survive).
     """
 
     voltage: np.ndarray
@@ -190,15 +191,19 @@ def self_heated_forward(model: ForwardModel, current, ambient, thermal_resistanc
         if any_off:
             V = np.where(conducting, V, 0.0)
             dV = np.where(conducting, dV, 0.0)
-        g = T - Ta - I_Rth * V
+        g = T - Ta - I_Rth * V          # g(Ta) ≤ 0 always
         dg = 1.0 - I_Rth * dV
-        lost = dg <= 0
-        step = g / np.where(lost, 1.0, dg) if lost.any() else g / dg
-        T = T - step
-        runaway |= lost | (T > _RUNAWAY_TEMPERATURE_K)
-        if runaway.any():
-            T = np.where(runaway, np.broadcast_to(Ta, shape), np.maximum(T, 0.5 * Ta))
-            step = np.where(runaway, 0.0, step)
+        rising = dg > 0
+        # No root at or below the cut-off: g still negative where it has stopped rising,
+        # or at the cut-off itself.
+        runaway |= (g < 0) & (~rising | (T >= _RUNAWAY_TEMPERATURE_K))
+        if rising.all():
+            step = g / dg
+        else:
+            # past the root on a falling stretch of g: fall back halfway towards Ta
+            step = np.where(rising, g / np.where(rising, dg, 1.0), 0.5 * (T - Ta))
+        step[runaway] = 0.0
+        T = np.clip(T - step, 0.5 * Ta, _RUNAWAY_TEMPERATURE_K)
         # Newton converges quadratically: after a step δ the error left is about
         # |g''/(2g')|·δ², below 1e-6 K for δ < tolerance on any datasheet part.
         if np.max(np.abs(step)) < tolerance:
