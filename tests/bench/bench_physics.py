@@ -1,4 +1,7 @@
-"""Benchmark: forward drop with self-heating, 10,000 parts × 8 corners (SPEC §9).
+"""Benchmarks of the physics core (SPEC §9).
+
+- forward drop with self-heating, 10,000 parts × 8 corners, against a per-part brentq loop;
+- model fits from datasheet points, parts per second (import fits every part without a model).
 
 Run: .venv/bin/python tests/bench/bench_physics.py
 Not collected by pytest (the name does not start with test_). Prints the vectorised
@@ -53,6 +56,21 @@ def brentq_loop(model, load, ambient, rth, parts):
     return out
 
 
+def bench_fit(parts: int = 500) -> float:
+    """Fits per second on datasheet-like points (5 points, read to 1 mV)."""
+    from partpick.physics.fit import fit_forward_model
+    from partpick.physics.junction import forward_voltage
+
+    rng = np.random.default_rng(3)
+    currents = np.array([0.01, 0.1, 0.5, 1.0, 3.0])
+    cases = [np.round(forward_voltage(currents, 10 ** rng.uniform(-12, -6), rng.uniform(1.05, 2.0),
+                                      rng.uniform(0.005, 0.5)), 3) for _ in range(parts)]
+    t0 = time.perf_counter()
+    for voltages in cases:
+        fit_forward_model(currents, voltages)
+    return parts / (time.perf_counter() - t0)
+
+
 def main() -> None:
     model, load, ambient, rth = make_inputs()
     vectorised(model, load, ambient, rth)  # warm-up
@@ -78,6 +96,7 @@ def main() -> None:
     print(f"  brentq per part   : {loop_total * 1e3:7.0f} ms (extrapolated from {sample} parts)")
     print(f"  speed-up          : {loop_total / best:7.0f}×; max |ΔTj| vs brentq {err:.2e} K; "
           f"{int(flagged.sum())} sampled cells flagged have their only root above 1500 K")
+    print(f"model fit from 5 datasheet points: {bench_fit():.0f} parts/s")
 
 
 if __name__ == "__main__":
