@@ -23,7 +23,7 @@ from sqlalchemy.orm import DeclarativeBase, Session, sessionmaker
 
 from partpick.errors import LibraryError
 
-__all__ = ["Base", "to_url", "sqlite_path", "make_engine", "make_sessionmakers", "library_errors"]
+__all__ = ["Base", "to_url", "sqlite_path", "make_engine", "make_sessionmakers", "library_errors", "one_line"]
 
 # Names for constraints, so that migrations can refer to them on every backend.
 NAMING_CONVENTION = {
@@ -98,13 +98,18 @@ def make_sessionmakers(engine: Engine) -> tuple[sessionmaker[Session], sessionma
     return reading, writing
 
 
+def one_line(text: str) -> str:
+    """A driver's message on one line (the CLI prints one line per error)."""
+    return " ".join(str(text).split())
+
+
 @contextlib.contextmanager
 def library_errors(location: str, action: str):
     """Turn database failures into `LibraryError` with a message a user can act on."""
     try:
         yield
     except exc.OperationalError as error:
-        text = str(error.orig) if error.orig is not None else str(error)
+        text = one_line(error.orig if error.orig is not None else error)
         lowered = text.lower()
         if "locked" in lowered or "busy" in lowered or "lock timeout" in lowered:
             raise LibraryError(
@@ -112,7 +117,7 @@ def library_errors(location: str, action: str):
             ) from error
         if "readonly" in lowered or "read-only" in lowered:
             raise LibraryError(f"library {location} is read-only: cannot {action}") from error
-        raise LibraryError(f"library {location}: cannot {action}: {text.strip()}") from error
+        raise LibraryError(f"library {location}: cannot {action}: {text}") from error
     except exc.DatabaseError as error:
-        text = str(error.orig) if error.orig is not None else str(error)
-        raise LibraryError(f"library {location}: cannot {action}: {text.strip()}") from error
+        text = one_line(error.orig if error.orig is not None else error)
+        raise LibraryError(f"library {location}: cannot {action}: {text}") from error

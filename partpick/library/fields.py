@@ -27,6 +27,7 @@ __all__ = [
     "MODEL_FIELDS",
     "kind_group",
     "validate_part",
+    "part_problems",
     "empty_part",
     "columns_as_arrays",
 ]
@@ -128,8 +129,8 @@ PART_FIELDS: tuple[FieldSpec, ...] = (
     _f("if_ref_C", "°C", "IF(AV) rated up to", -65.0, 250.0,
        "Case or ambient temperature up to which IF(AV) holds (default 25 °C)."),
     _f("ifsm_A", "A", "IFSM", 0.0, 100e3, "Non-repetitive surge current rating.", True),
-    _f("ifsm_ms", "", "IFSM pulse [ms]", 0.0, 1000.0, "Surge pulse length in ms (default 8.3 ms, a half sine at 60 Hz).",
-       True),
+    _f("ifsm_ms", "", "IFSM pulse [ms]", 0.0, 1000.0,
+       "Surge pulse length in ms (default 8.3 ms, a half sine at 60 Hz).", True),
     _f("pd_W", "W", "Pd", 0.0, 10e3, "Power rating at pd_ref_C; with Tj max it gives RthJA.", True),
     _f("pd_ref_C", "°C", "Pd rated up to", -65.0, 250.0, "Temperature up to which Pd holds (default 25 °C)."),
     _f("tj_max_C", "°C", "Tj max", 25.0, 250.0, "Maximum junction temperature.", True),
@@ -196,37 +197,37 @@ def _is_number(value) -> bool:
     return isinstance(value, (int, float)) and not isinstance(value, bool)
 
 
-def _check_number(spec: FieldSpec, value, who: str, problems: list[str]) -> bool:
+def _check_number(spec: FieldSpec, value, who: str, problems: "_Problems") -> bool:
     if not _is_number(value):
-        problems.append(f"{who}: {spec.name} = {value!r} is not a number ({spec.range_text()})")
+        problems.add(spec.name, f"{who}: {spec.name} = {value!r} is not a number ({spec.range_text()})")
         return False
     if not math.isfinite(value):
-        problems.append(f"{who}: {spec.name} = {value!r} is not a finite number ({spec.range_text()})")
+        problems.add(spec.name, f"{who}: {spec.name} = {value!r} is not a finite number ({spec.range_text()})")
         return False
     low, high = spec.minimum, spec.maximum
     too_low = low is not None and (value <= low if spec.exclusive_minimum else value < low)
     too_high = high is not None and value > high
     if too_low or too_high:
         unit = f" {spec.unit}" if spec.unit else ""
-        problems.append(f"{who}: {spec.name} = {value:g}{unit} is out of range (allowed: {spec.range_text()})")
+        problems.add(spec.name, f"{who}: {spec.name} = {value:g}{unit} is out of range (allowed: {spec.range_text()})")
         return False
     return True
 
 
-def _check_points(spec: FieldSpec, points, who: str, problems: list[str]) -> None:
+def _check_points(spec: FieldSpec, points, who: str, problems: "_Problems") -> None:
     if not isinstance(points, (list, tuple)):
-        problems.append(f"{who}: vf_points = {points!r} is not a list of (IF, VF) pairs")
+        problems.add("vf_points", f"{who}: vf_points = {points!r} is not a list of (IF, VF) pairs")
         return
     previous = None
     for index, pair in enumerate(points, start=1):
         if not isinstance(pair, (list, tuple)) or len(pair) != 2:
-            problems.append(f"{who}: vf_points point {index} = {pair!r} is not an (IF, VF) pair")
+            problems.add("vf_points", f"{who}: vf_points point {index} = {pair!r} is not an (IF, VF) pair")
             return
         current, voltage = pair
         ok = True
         for quantity, value, unit, high in (("IF", current, "A", 100e3), ("VF", voltage, "V", 100.0)):
             if not _is_number(value) or not math.isfinite(value) or not 0 < value <= high:
-                problems.append(
+                problems.add("vf_points",
                     f"{who}: vf_points point {index} {quantity} = {value!r} is out of range "
                     f"(allowed: 0 < {quantity} ≤ {high:g} {unit})"
                 )
@@ -235,19 +236,31 @@ def _check_points(spec: FieldSpec, points, who: str, problems: list[str]) -> Non
             return
         if previous is not None:
             if current <= previous[0]:
-                problems.append(
+                problems.add("vf_points",
                     f"{who}: vf_points point {index} IF = {current:g} A is not above the previous "
                     f"{previous[0]:g} A (points must rise strictly in IF)"
                 )
             if voltage <= previous[1]:
-                problems.append(
+                problems.add("vf_points",
                     f"{who}: vf_points point {index} VF = {voltage:g} V is not above the previous "
                     f"{previous[1]:g} V (points must rise strictly in VF)"
                 )
         previous = (current, voltage)
 
 
+class _Problems(list):
+    """Problems as (field, message) pairs; `validate_part` returns the messages."""
+
+    def add(self, field_name: str | None, message: str) -> None:
+        self.append((field_name, message))
+
+
 def validate_part(part: dict) -> list[str]:
+    """Every problem with a part, as messages (see `part_problems`)."""
+    return [message for _, message in part_problems(part)]
+
+
+def part_problems(part: dict) -> list[tuple[str | None, str]]:
     """Every problem with a part, each naming the part, field, value and allowed range.
 
     Parameters
@@ -257,27 +270,39 @@ def validate_part(part: dict) -> list[str]:
 
     Returns
     -------
-    list of str
-        Empty when the part may be stored. The checks: types and physical
-        ranges of every field; required fields by kind (every diode needs
-        VRRM, IF(AV) and a forward model — Is, n, Rs or VF points; a Zener
+    list of (str or None, str)
+        (field, message) for each problem; empty when the part may be
+        stored. The checks: types and physical ranges of every field;
+        required fields by kind (every diode needs VRRM, IF(AV) and a forward model — Is, n, Rs or VF points; a Zener
         needs Vz, its tolerance, Izt, Zzt, and Pd or RthJA); fields that go
         together; VF points rising strictly in IF and VF; rating temperatures
         below Tj max, so that Pd and RthJA give each other
         (RthJA = (Tj max − pd_ref_C)/Pd, SPEC §3).
     """
-    problems: list[str] = []
+    problems = _Problems()
     if not isinstance(part, dict):
-        return [f"part: {part!r} is not a part record"]
+        problems.add(None, f"part: {part!r} is not a part record")
+        return problems
     unknown = sorted(set(part) - set(FIELD_NAMES) - {"fit_residual_mV"})
     number = part.get("part_number")
-    who = f"part {number}" if isinstance(number, str) and number else "part (no part number)"
+    if isinstance(number, str) and number:
+        who = f"part {number}" if number.isprintable() else f"part {number!r}"
+    else:
+        who = "part (no part number)"
     for name in unknown:
-        problems.append(f"{who}: {name!r} is not a part field")
+        problems.add(name, f"{who}: {name!r} is not a part field")
 
     given = {}
     for spec in PART_FIELDS:
         value = part.get(spec.name)
+        if value is None and spec.type != "points":
+            continue
+        if type(value) is float and spec.type == "float":
+            # The common case, checked inline; anything doubtful goes the long way for its message.
+            low, high = spec.minimum, spec.maximum
+            if (value > low if spec.exclusive_minimum else value >= low) and value <= high:
+                given[spec.name] = value
+                continue
         if spec.type == "points":
             if value is None:
                 value = []
@@ -288,16 +313,16 @@ def validate_part(part: dict) -> list[str]:
             continue
         if spec.type in ("text", "choice"):
             if not isinstance(value, str):
-                problems.append(f"{who}: {spec.name} = {value!r} is not text")
+                problems.add(spec.name, f"{who}: {spec.name} = {value!r} is not text")
                 continue
             if value == "":
                 continue  # empty text is "not known"
             if spec.type == "choice" and value not in spec.choices:
-                problems.append(f"{who}: {spec.name} = {value!r} is not allowed (allowed: {spec.range_text()})")
+                problems.add(spec.name, f"{who}: {spec.name} = {value!r} is not allowed (allowed: {spec.range_text()})")
                 continue
             if spec.max_length is not None and len(value) > spec.max_length:
-                problems.append(
-                    f"{who}: {spec.name} is {len(value)} characters long (allowed: {spec.range_text()})"
+                problems.add(
+                    spec.name, f"{who}: {spec.name} is {len(value)} characters long (allowed: {spec.range_text()})"
                 )
                 continue
         elif not _check_number(spec, value, who, problems):
@@ -305,12 +330,12 @@ def validate_part(part: dict) -> list[str]:
         given[spec.name] = value
 
     if number is None or number == "":
-        problems.append(f"{who}: part_number is missing (a unique part number is required)")
+        problems.add("part_number", f"{who}: part_number is missing (a unique part number is required)")
     elif isinstance(number, str) and (number != number.strip() or any(c in number for c in "\r\n\t")):
-        problems.append(f"{who}: part_number {number!r} has leading/trailing spaces or control characters")
+        problems.add("part_number", f"{who}: part_number {number!r} has leading/trailing spaces or control characters")
     kind = part.get("kind")
     if kind is None or kind == "":
-        problems.append(f"{who}: kind is missing (allowed: one of {', '.join(KINDS)})")
+        problems.add("kind", f"{who}: kind is missing (allowed: one of {', '.join(KINDS)})")
 
     def has(name: str) -> bool:
         return name in given and given[name] not in ([], ())
@@ -318,38 +343,39 @@ def validate_part(part: dict) -> list[str]:
     for first, second in _PAIRS:
         if has(first) != has(second):
             present, absent = (first, second) if has(first) else (second, first)
-            problems.append(f"{who}: {present} is given without {absent} (give both or neither)")
+            problems.add(present, f"{who}: {present} is given without {absent} (give both or neither)")
 
-    model_given = [name for name in MODEL_FIELDS if has(name)]
+    model_given = [name for name in MODEL_FIELDS if part.get(name) is not None]
     if model_given and len(model_given) != len(MODEL_FIELDS):
         missing = [name for name in MODEL_FIELDS if name not in model_given]
-        problems.append(
+        problems.add(missing[0],
             f"{who}: forward model incomplete: {', '.join(model_given)} given without {', '.join(missing)} "
             "(give is_A, n and rs_ohm together, or only vf_points to have them fitted)"
         )
     source = given.get("model_source")
     if source and not model_given and not has("vf_points"):
-        problems.append(f"{who}: model_source = {source!r} but no forward model (is_A, n, rs_ohm) is given")
+        problems.add("model_source",
+                     f"{who}: model_source = {source!r} but no forward model (is_A, n, rs_ohm) is given")
     if source == "fitted" and not has("vf_points"):
-        problems.append(f"{who}: model_source = 'fitted' needs the vf_points the model was fitted to")
+        problems.add("model_source", f"{who}: model_source = 'fitted' needs the vf_points the model was fitted to")
 
     if "tj_max_C" in given:
         tj_max = given["tj_max_C"]
         for ref in ("pd_ref_C", "if_ref_C", "ir_t_C"):
             if ref in given and given[ref] >= tj_max:
-                problems.append(
+                problems.add(ref,
                     f"{who}: {ref} = {given[ref]:g} °C is not below tj_max_C = {tj_max:g} °C "
                     f"(allowed: {ref} < tj_max_C)"
                 )
     if has("ir_vr_V") and has("vrrm_V") and given["ir_vr_V"] > given["vrrm_V"]:
-        problems.append(
+        problems.add("ir_vr_V",
             f"{who}: ir_vr_V = {given['ir_vr_V']:g} V is above vrrm_V = {given['vrrm_V']:g} V "
             "(allowed: ir_vr_V ≤ vrrm_V)"
         )
     if has("zzk_ohm") and not has("izk_A"):
-        problems.append(f"{who}: zzk_ohm is given without izk_A (the knee impedance needs its knee current)")
+        problems.add("zzk_ohm", f"{who}: zzk_ohm is given without izk_A (the knee impedance needs its knee current)")
     if has("izk_A") and has("izt_A") and given["izk_A"] >= given["izt_A"]:
-        problems.append(
+        problems.add("izk_A",
             f"{who}: izk_A = {given['izk_A']:g} A is not below izt_A = {given['izt_A']:g} A "
             "(allowed: izk_A < izt_A)"
         )
@@ -357,16 +383,18 @@ def validate_part(part: dict) -> list[str]:
     if kind == "zener":
         for name in _ZENER_REQUIRED:
             if not has(name) and part.get(name) is None:
-                problems.append(f"{who}: {name} is required for a Zener ({FIELDS_BY_NAME[name].help})")
+                help_text = FIELDS_BY_NAME[name].help.rstrip(".")
+                problems.add(name, f"{who}: {name} is required for a Zener ({help_text})")
         if not has("pd_W") and not has("rth_ja_K_per_W") and part.get("pd_W") is None \
                 and part.get("rth_ja_K_per_W") is None:
-            problems.append(f"{who}: a Zener needs pd_W or rth_ja_K_per_W (power or thermal data)")
+            problems.add("pd_W", f"{who}: a Zener needs pd_W or rth_ja_K_per_W (power or thermal data)")
     elif kind in KINDS:
         for name in _DIODE_REQUIRED:
             if not has(name) and part.get(name) is None:
-                problems.append(f"{who}: {name} is required for a {kind} diode ({FIELDS_BY_NAME[name].help})")
+                help_text = FIELDS_BY_NAME[name].help.rstrip(".")
+                problems.add(name, f"{who}: {name} is required for a {kind} diode ({help_text})")
         if not model_given and not has("vf_points") and not any(part.get(n) is not None for n in MODEL_FIELDS):
-            problems.append(
+            problems.add("is_A",
                 f"{who}: a {kind} diode needs a forward model: is_A, n and rs_ohm, or vf_points to fit them"
             )
     return problems
@@ -387,12 +415,30 @@ def columns_as_arrays(parts: list[dict], names: tuple[str, ...] | None = None) -
     dict of str to ndarray
         One float64 array per field, in the order of ``parts``.
     """
+    import gc
+    import operator
+
     import numpy as np  # only callers that want arrays pay for numpy
 
     if names is None:
         names = tuple(spec.name for spec in PART_FIELDS if spec.type == "float")
-    nan = math.nan
-    return {
-        name: np.fromiter((nan if (v := p.get(name)) is None else v for p in parts), dtype=float, count=len(parts))
-        for name in names
-    }
+    names = tuple(names)
+    if not parts or not names:
+        return {name: np.empty(0, dtype=float) for name in names}
+    # Many small tuples, no cycles: the cyclic collector would only slow this down.
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        try:
+            pick = operator.itemgetter(*names)
+            picked = [pick(part) for part in parts]
+        except KeyError:  # records lacking some keys: those values are unknown
+            picked = [tuple(part.get(name) for name in names) for part in parts]
+        if len(names) == 1:
+            picked = [(value,) for value in picked]
+        # One conversion for the whole table; None becomes NaN under dtype=float.
+        table = np.ascontiguousarray(np.array(picked, dtype=float).T)
+    finally:
+        if collecting:
+            gc.enable()
+    return {name: table[index] for index, name in enumerate(names)}

@@ -231,7 +231,8 @@ def test_fit_on_import_matches_the_generating_model(library, write_csv):
     # Points generated from Is = 2 nA, n = 1.9, Rs = 40 mΩ and rounded to 1 mV; the fit must land near them.
     points = _diode_points(2e-9, 1.9, 0.04, (0.01, 0.1, 0.5, 1.0, 3.0))
     cell = ";".join(f"{i}:{v}" for i, v in points)
-    summary = library.import_csv(write_csv(f"part_number,kind,vrrm_V,if_avg_A,vf_points\nTST-P,rectifier,400,1,{cell}\n"))
+    text = f"part_number,kind,vrrm_V,if_avg_A,vf_points\nTST-P,rectifier,400,1,{cell}\n"
+    summary = library.import_csv(write_csv(text))
     assert summary.fitted == ["TST-P"]
     part = library.get_part("TST-P")
     assert part["model_source"] == "fitted"
@@ -254,12 +255,13 @@ def test_update_summary_added_updated_unchanged(library, write_csv):
 
 
 def test_dry_run_writes_nothing(library, library_path, write_csv):
+    library.close()  # every change checkpointed into the file
     before = library_path.read_bytes()
-    summary = library.import_csv(write_csv(f"{HEADER}\nTST-1,rectifier,400,1,2e-9,1.9,0.04\n"), dry_run=True)
-    assert summary.added == ["TST-1"] and summary.dry_run and not summary.written
-    assert "dry run, nothing written" in summary.text()
-    assert library.list_parts() == []
-    library.close()
+    with open_library(library_path) as reopened:
+        summary = reopened.import_csv(write_csv(f"{HEADER}\nTST-1,rectifier,400,1,2e-9,1.9,0.04\n"), dry_run=True)
+        assert summary.added == ["TST-1"] and summary.dry_run and not summary.written
+        assert "dry run, nothing written" in summary.text()
+        assert reopened.list_parts() == []
     assert library_path.read_bytes() == before
 
 
@@ -286,3 +288,54 @@ def test_cancel_writes_nothing(library, write_csv, stop_after):
     summary = library.import_csv(write_csv(_many_rows(5000)), cancel=cancel)
     assert summary.cancelled and not summary.written
     assert library.list_parts() == []
+
+
+def test_random_parts_round_trip_exactly(tmp_path):
+    # Seeded random parts: every float drawn across its whole allowed range (log-uniform where the
+    # range spans decades), text with the characters that stress CSV quoting and the formula guard.
+    import random
+
+    from partpick.library.fields import PART_FIELDS
+
+    rng = random.Random(20261201)
+    alphabet = ["a", "Z", "0", ",", '"', "'", "=", "+", "-", "@", "\t", "\n", "\r\n", ";", ":", "Ω", "µ", " "]
+
+    def text(limit):
+        return "".join(rng.choice(alphabet) for _ in range(rng.randint(1, min(limit, 12)))).strip() or "x"
+
+    parts = []
+    for index in range(200):
+        part = {"part_number": f"RND-{index:03d}", "kind": "rectifier", "vf_points": []}
+        for spec in PART_FIELDS:
+            if spec.type != "float" or rng.random() < 0.3:
+                continue
+            low, high = spec.minimum, spec.maximum
+            if low > 0 and high / low > 1e3:
+                value = 10 ** rng.uniform(math.log10(low), math.log10(high))
+            else:
+                value = rng.uniform(low, high)
+            part[spec.name] = min(max(value, math.nextafter(low, math.inf)), high)
+        part.update(vrrm_V=rng.uniform(1, 1000), if_avg_A=rng.uniform(0.1, 10), is_A=10 ** rng.uniform(-15, -3),
+                    n=rng.uniform(0.5, 4), rs_ohm=rng.uniform(0, 1), tj_max_C=rng.uniform(100, 250),
+                    model_source="entered", vf_max_V=None, vf_max_at_A=None, ir_A=None, ir_vr_V=None,
+                    izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None)
+        for name in ("manufacturer", "package", "datasheet", "notes"):
+            part[name] = text(64)
+        parts.append(part)
+    with open_library(tmp_path / "a.sqlite", create=True) as first:
+        for part in parts:
+            first.save_part(part)
+        exported = io.StringIO(newline="")
+        first.export_csv(exported)
+        stored = first.list_parts()
+    (tmp_path / "a.csv").write_bytes(exported.getvalue().encode("utf-8"))
+    with open_library(tmp_path / "b.sqlite", create=True) as second:
+        second.import_csv(tmp_path / "a.csv")
+        again = io.StringIO(newline="")
+        second.export_csv(again)
+        reread = second.list_parts()
+    assert again.getvalue() == exported.getvalue()
+    assert reread == stored
+    for original, back in zip(sorted(parts, key=lambda p: p["part_number"]), reread):
+        for key, value in original.items():
+            assert back[key] == value, (original["part_number"], key)

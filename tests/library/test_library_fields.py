@@ -38,13 +38,10 @@ def test_unit_in_column_name_matches_display_unit():
     suffix_unit = {"_V": "V", "_A": "A", "_ohm": "Ω", "_W": "W", "_C": "°C", "_K_per_W": "K/W", "_eV": "eV",
                    "_pct": "%", "_K": "K", "_pct_per_K": "%/K"}
     for spec in PART_FIELDS:
-        if spec.type != "float":
-            continue
-        matches = [unit for suffix, unit in suffix_unit.items() if spec.name.endswith(suffix)]
-        if matches:
-            # the longest suffix wins (_K_per_W over _W)
-            best = max((s for s in suffix_unit if spec.name.endswith(s)), key=len)
-            assert spec.unit == suffix_unit[best], spec.name
+        suffixes = [suffix for suffix in suffix_unit if spec.name.endswith(suffix)]
+        if spec.type == "float" and suffixes:
+            longest = max(suffixes, key=len)  # _K_per_W over _W, _pct_per_K over _K
+            assert spec.unit == suffix_unit[longest], spec.name
 
 
 def test_fields_module_does_not_load_sqlalchemy():

@@ -1,0 +1,140 @@
+"""`partpick library new | import | export | list`: the parts library from the command line.
+
+Every subcommand takes ``--library PATH|URL`` after it; without it the
+user's own library is used (created from the bundled example on first run).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+from partpick.errors import InputError
+
+# Columns of `library list` (the table form); the JSON form has every CSV key.
+_TABLE_COLUMNS = (
+    ("part_number", "Part number", ""),
+    ("kind", "Kind", ""),
+    ("manufacturer", "Manufacturer", ""),
+    ("package", "Package", ""),
+    ("vrrm_V", "VRRM", "V"),
+    ("if_avg_A", "IF(AV)", "A"),
+    ("vz_V", "Vz", "V"),
+    ("price", "Price", ""),
+    ("lifecycle", "Lifecycle", ""),
+)
+
+
+def _add_library_option(parser: argparse.ArgumentParser) -> None:
+    # SUPPRESS: an absent option must not overwrite `partpick --library X library ...`.
+    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
+                        help="the library (a file or an SQLAlchemy URL); default: your own library")
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser("library", help="create, import into, export and list a parts library")
+    commands = parser.add_subparsers(dest="library_command", metavar="ACTION")
+    parser.set_defaults(func=_no_action)
+
+    new = commands.add_parser("new", help="create an empty library")
+    new.add_argument("path", metavar="PATH|URL", help="where to create it (a new file, or an empty database URL)")
+    new.set_defaults(func=_new)
+
+    importing = commands.add_parser("import", help="import parts from a CSV file (all rows or none)")
+    importing.add_argument("csv", metavar="F.csv", help="the parts CSV (SPEC columns, any order)")
+    importing.add_argument("--dry-run", action="store_true", help="check the file and report; write nothing")
+    _add_library_option(importing)
+    importing.set_defaults(func=_import)
+
+    export = commands.add_parser("export", help="export every part as CSV")
+    export.add_argument("--output", metavar="F", help="file to write (default: standard output)")
+    _add_library_option(export)
+    export.set_defaults(func=_export)
+
+    listing = commands.add_parser("list", help="list the parts")
+    listing.add_argument("--format", choices=("table", "json"), default="table", help="output format")
+    _add_library_option(listing)
+    listing.set_defaults(func=_list)
+
+
+def _no_action(args) -> int:
+    raise InputError("partpick library: choose an action: new, import, export or list")
+
+
+def _open(args):
+    from partpick.library.store import open_library
+
+    library = open_library(getattr(args, "library", None))
+    if library.note:  # e.g. an older library was migrated (and where its backup is)
+        print(f"partpick: {library.note}", file=sys.stderr)
+    return library
+
+
+def _new(args) -> int:
+    from pathlib import Path
+
+    from partpick.library.store import open_library
+
+    if "://" not in args.path and Path(args.path).exists():
+        raise InputError(f"library new: {args.path} already exists (choose a new file name)")
+    with open_library(args.path, create=True) as library:
+        print(f"created library {library.location}")
+    return 0
+
+
+def _import(args) -> int:
+    with _open(args) as library:
+        progress = None
+        if sys.stderr.isatty():
+            def progress(done: int, total: int) -> None:
+                print(f"\rimporting… {100 * done // max(total, 1):3d} %", end="", file=sys.stderr, flush=True)
+        try:
+            summary = library.import_csv(args.csv, dry_run=args.dry_run, progress=progress)
+        finally:
+            if progress is not None:
+                print("\r", end="", file=sys.stderr)
+        print(summary.text())
+    return 0
+
+
+def _export(args) -> int:
+    with _open(args) as library:
+        if args.output:
+            library.export_csv(args.output)
+        else:
+            library.export_csv(sys.stdout)
+    return 0
+
+
+def _list(args) -> int:
+    from partpick.library.fields import FIELD_NAMES
+
+    with _open(args) as library:
+        parts = library.list_parts()
+    if args.format == "json":
+        records = []
+        for part in parts:
+            record = {name: part[name] for name in FIELD_NAMES}
+            record["vf_points"] = [list(point) for point in part["vf_points"]]
+            records.append(record)
+        json.dump(records, sys.stdout, indent=2, ensure_ascii=False, allow_nan=False)
+        sys.stdout.write("\n")
+        return 0
+    from partpick.units import format_quantity
+
+    table = [[label for _, label, _ in _TABLE_COLUMNS]]
+    for part in parts:
+        row = []
+        for name, _, unit in _TABLE_COLUMNS:
+            value = part[name]
+            if isinstance(value, float):
+                row.append(format_quantity(value, unit) if unit else f"{value:g}")
+            else:
+                row.append("" if value is None else str(value))
+        table.append(row)
+    widths = [max(len(row[i]) for row in table) for i in range(len(_TABLE_COLUMNS))]
+    for row in table:
+        print("  ".join(cell.ljust(width) for cell, width in zip(row, widths)).rstrip())
+    print(f"{len(parts)} part{'s' if len(parts) != 1 else ''} in {library.location}")
+    return 0

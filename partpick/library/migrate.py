@@ -1,0 +1,180 @@
+"""Schema versions: recognise a partpick library, refuse what is not one, migrate older ones.
+
+Opening a location goes through `prepare_database` first:
+
+- a file that is not SQLite, or a database without partpick's ``schema_version``
+  row, is refused with `LibraryError` and left untouched (the probe opens it
+  without any set-up that writes, e.g. no WAL switch);
+- a library written by a newer partpick is refused;
+- an older library is copied next to itself (``NAME.schemaN.backup``, with the
+  SQLite backup API so a live WAL is included) and then migrated step by step,
+  all steps in one transaction.
+
+A migration step is a function ``step(operations)`` receiving alembic's
+`Operations` bound to the open transaction (portable ALTER TABLE, SQLite
+batch mode included); register it in `MIGRATIONS` under the version it
+upgrades from.
+"""
+
+from __future__ import annotations
+
+import sqlite3
+from collections.abc import Callable
+from pathlib import Path
+
+from sqlalchemy import create_engine, exc, inspect, insert, select, update
+from sqlalchemy.engine import URL, Engine
+
+from partpick.errors import LibraryError
+from partpick.library import models
+from partpick.library.db import one_line, sqlite_path
+
+__all__ = ["MIGRATIONS", "SQLITE_MAGIC", "probe_version", "prepare_database", "backup_sqlite"]
+
+SQLITE_MAGIC = b"SQLite format 3\x00"
+
+# MIGRATIONS[k] upgrades a library from schema k to k + 1.
+MIGRATIONS: dict[int, Callable] = {}
+
+
+def _check_sqlite_file(path: Path, location: str) -> None:
+    if path.is_dir():
+        raise LibraryError(f"{location} is a folder, not a partpick library")
+    try:
+        with open(path, "rb") as handle:
+            header = handle.read(len(SQLITE_MAGIC))
+    except OSError as error:
+        raise LibraryError(f"cannot read library {location}: {error.strerror or error}") from error
+    if header != SQLITE_MAGIC:
+        raise LibraryError(f"{location} is not a partpick library (not an SQLite database file); left untouched")
+
+
+def probe_version(url: URL, location: str) -> int | None:
+    """The schema version of the library at ``url``; None for an empty database.
+
+    Raises
+    ------
+    LibraryError
+        The database has tables but is not a partpick library, or cannot be read.
+    """
+    engine = create_engine(url)
+    try:
+        with engine.connect() as connection:
+            if url.get_backend_name() == "sqlite":
+                connection.exec_driver_sql("PRAGMA query_only = ON")
+            tables = set(inspect(connection).get_table_names())
+            if not tables:
+                return None
+            if models.SchemaVersion.__tablename__ not in tables:
+                raise LibraryError(f"{location} is not a partpick library (no schema version record); left untouched")
+            table = models.SchemaVersion.__table__
+            rows = connection.execute(select(table.c.application, table.c.version)).all()
+    except exc.DBAPIError as error:
+        text = one_line(error.orig if error.orig is not None else error)
+        if "not a database" in text or "malformed" in text:
+            raise LibraryError(f"{location} is not a partpick library ({text}); left untouched") from error
+        if "locked" in text or "busy" in text:
+            raise LibraryError(f"library {location} is busy: another program is writing to it; try again") from error
+        raise LibraryError(f"cannot read library {location}: {text}") from error
+    finally:
+        engine.dispose()
+    if len(rows) != 1 or rows[0].application != models.APPLICATION:
+        raise LibraryError(f"{location} is not a partpick library (no partpick schema version record); left untouched")
+    return int(rows[0].version)
+
+
+def backup_sqlite(path: Path, version: int) -> Path:
+    """Copy a SQLite library next to itself before a migration; returns the copy's path."""
+    target = path.with_name(f"{path.name}.schema{version}.backup")
+    counter = 2
+    while target.exists():
+        target = path.with_name(f"{path.name}.schema{version}.backup{counter}")
+        counter += 1
+    source = sqlite3.connect(path)
+    try:
+        destination = sqlite3.connect(target)
+        try:
+            source.backup(destination)
+        finally:
+            destination.close()
+    except sqlite3.Error as error:
+        target.unlink(missing_ok=True)
+        raise LibraryError(f"cannot back up {path} before migrating it: {error}; left untouched") from error
+    finally:
+        source.close()
+    return target
+
+
+def _create_schema(engine: Engine) -> None:
+    with engine.execution_options(partpick_write=True).begin() as connection:
+        models.Base.metadata.create_all(connection)
+        connection.execute(
+            insert(models.SchemaVersion.__table__).values(
+                id=1, application=models.APPLICATION, version=models.SCHEMA_VERSION
+            )
+        )
+
+
+def _migrate(engine: Engine, version: int) -> None:
+    from alembic.migration import MigrationContext
+    from alembic.operations import Operations
+
+    with engine.execution_options(partpick_write=True).begin() as connection:
+        operations = Operations(MigrationContext.configure(connection))
+        for step_from in range(version, models.SCHEMA_VERSION):
+            step = MIGRATIONS.get(step_from)
+            if step is None:
+                raise LibraryError(f"no migration from library schema {step_from} to {step_from + 1}")
+            step(operations)
+        table = models.SchemaVersion.__table__
+        connection.execute(update(table).values(version=models.SCHEMA_VERSION))
+
+
+def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -> str | None:
+    """Make the database at ``url`` a usable library of the current schema.
+
+    Parameters
+    ----------
+    url, location : the database and how the user named it (for messages).
+    engine : the library's engine (with its connection set-up), used for writes.
+    create : create the tables when the database is new or empty.
+
+    Returns
+    -------
+    str or None
+        A sentence about what was done (``"migrated from schema 1; backup at ..."``), or None.
+    """
+    path = sqlite_path(url)
+    if path is not None:
+        if not path.exists():
+            if not create:
+                raise LibraryError(f"no library at {location} (create one with `partpick library new {location}`)")
+            if not path.parent.is_dir():
+                raise LibraryError(f"cannot create library {location}: folder {path.parent} does not exist")
+        else:
+            _check_sqlite_file(path, location)
+    version = None if path is not None and not path.exists() else probe_version(url, location)
+    if version is None:
+        if not create:
+            raise LibraryError(f"{location} is an empty database, not a partpick library")
+        _create_schema(engine)
+        return "created a new library"
+    if version > models.SCHEMA_VERSION:
+        raise LibraryError(
+            f"library {location} was written by a newer partpick (schema {version}; this partpick "
+            f"reads up to schema {models.SCHEMA_VERSION}); update partpick to open it"
+        )
+    if version < models.SCHEMA_VERSION:
+        backup = backup_sqlite(path, version) if path is not None else None
+        where = f"; backup of the old file at {backup}" if backup else ""
+        try:
+            _migrate(engine, version)
+        except LibraryError:
+            raise
+        except Exception as error:  # a failed step rolled back with its transaction
+            raise LibraryError(
+                f"migrating library {location} from schema {version} failed ({error}); "
+                f"the library is unchanged{where}"
+            ) from error
+        return f"migrated library from schema {version} to {models.SCHEMA_VERSION}{where}"
+    return None
