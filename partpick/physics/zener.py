@@ -28,6 +28,8 @@ __all__ = ["ZenerModel", "ShuntPoint", "solve_shunt"]
 # fraction of Izt (an assumption for curves only; checks that need Izk report
 # the missing datum instead).
 _ASSUMED_KNEE_FRACTION = 0.05
+# Below this fraction of Izt the Zener current is taken as none at all (the solver's lower bracket).
+_NEGLIGIBLE_CURRENT_FRACTION = 1e-12
 
 
 @dataclass(frozen=True)
@@ -68,9 +70,13 @@ class ZenerModel:
         zzk = np.asarray(self.knee_impedance, dtype=float)
         if np.any(np.isfinite(zzk) & (zzk <= 0)):
             raise ValueError(f"knee_impedance must be > 0, got {float(np.nanmin(zzk))!r}")
+        object.__setattr__(self, "_curve", self._compute_shape())
 
     # --- the shape of the curve -------------------------------------------------
     def _shape(self):
+        return self._curve
+
+    def _compute_shape(self):
         Izt = np.asarray(self.test_current, dtype=float)
         Zzt = np.asarray(self.test_impedance, dtype=float)
         izk = np.asarray(self.knee_current, dtype=float)
@@ -89,7 +95,9 @@ class ZenerModel:
 
     def delta_voltage(self, current):
         """ΔV(Iz) = Vz(Iz) − Vz(Izt) at constant temperature [V] (zero at Izt)."""
-        I = positive("current", current)
+        return self._delta(positive("current", current))
+
+    def _delta(self, I):
         Izt, Zzt, Izk, Zzk, s, dv_knee = self._shape()
         above = Zzt * (I - Izt)
         knee_region = _interp_delta(np.log(np.maximum(I, Izk) / Izt), s, Zzt * Izt)
@@ -103,11 +111,12 @@ class ZenerModel:
 
     def impedance(self, current):
         """Dynamic impedance dVz/dIz [ohm] at ``current`` [A]."""
-        I = positive("current", current)
+        return scalar_or_array(self._impedance(positive("current", current)), current)
+
+    def _impedance(self, I):
         Izt, Zzt, Izk, Zzk, s, _ = self._shape()
         inner = Zzt * (np.clip(I, Izk, Izt) / Izt) ** s
-        result = np.where(I >= Izt, Zzt, np.where(I >= Izk, inner, Zzk * Izk / I))
-        return scalar_or_array(result, current)
+        return np.where(I >= Izt, Zzt, np.where(I >= Izk, inner, Zzk * Izk / I))
 
     def current(self, voltage, junction_temperature=T0_K):
         """Zener current [A] at a reverse voltage [V] (inverse of `voltage_at`; > 0 everywhere)."""
@@ -183,10 +192,11 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
 
     Notes
     -----
-    Kirchhoff's current law gives Iz(V) = (Vs − V)/R − IL and self-heating
-    Tj(V) = Ta + V·Iz(V)·RthJA, so the one unknown is V, the root of
-    f(V) = Iz(V) − Izener(V, Tj(V)) on (0, Vs − IL·R). Newton steps on f are
-    safeguarded by bisection inside the bracket, which always holds the root.
+    Kirchhoff's laws give V(Iz) = Vs − (Iz + IL)·R and the self-heating
+    Tj(Iz) = Ta + V(Iz)·Iz·RthJA, so the one unknown is Iz, the root of
+    h = Vz(Iz, Tj(Iz)) − V(Iz), solved in u = ln Iz by Newton's method
+    safeguarded by bisection (the bracket always holds the root). A Zener whose
+    breakdown voltage at 1e-12·Izt is already above Vs − IL·R carries no current.
     """
     Vs = finite("supply", supply)
     R = positive("resistance", resistance)
@@ -200,37 +210,66 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
     Vs, R, IL, Ta, Rth = (np.broadcast_to(x, shape).astype(float) for x in (Vs, R, IL, Ta, Rth))
     v_open = Vs - IL * R
     collapsed = v_open <= 0
-    hi = np.where(collapsed, 1.0, v_open)
-    lo = np.zeros(shape)
     alpha_vz = np.asarray(model.voltage) * np.asarray(model.temperature_coefficient)
+    Izt = np.asarray(model.test_current, dtype=float)
 
-    def kcl(V):
-        return (Vs - V) / R - IL
+    # The unknown is u = ln Iz. Kirchhoff gives V(Iz) = Vs − (Iz + IL)·R and the
+    # self-heating Tj(Iz) = Ta + V·Iz·RthJA explicitly, and the root of
+    # h(u) = Vz(Iz, Tj) − V(Iz) is unique (h rises with Iz). Below the knee Vz is
+    # linear in u, above it both terms are smooth, so Newton in u is well behaved.
+    def output(iz):
+        return Vs - (iz + IL) * R
 
-    def tj(V):
-        return np.maximum(Ta + V * np.maximum(kcl(V), 0.0) * Rth, 1.0)
+    def junction(iz):
+        return np.maximum(Ta + np.maximum(output(iz), 0.0) * iz * Rth, 1.0)
 
-    V = 0.5 * hi
+    iz_max = np.where(collapsed, 1.0, v_open / R)          # Iz at V = 0
+    u_hi = np.log(iz_max)
+    u_lo = np.log(_NEGLIGIBLE_CURRENT_FRACTION * Izt) * np.ones(shape)
+    u_lo = np.minimum(u_lo, u_hi - 1.0)
+    # Where even a negligible current already exceeds Vs − IL·R in breakdown, the
+    # Zener does not conduct: Iz ≈ 0 and V = Vs − IL·R.
+    vz25 = np.asarray(model.voltage, dtype=float)
+    alpha = np.asarray(model.temperature_coefficient, dtype=float)
+
+    def breakdown(iz, tj):
+        return vz25 * (1.0 + alpha * (tj - T0_K)) + model._delta(iz)
+
+    off = collapsed | (breakdown(np.exp(u_lo), junction(np.exp(u_lo))) - output(np.exp(u_lo)) >= 0)
+    vz_cold = np.asarray(model.base_voltage(Ta)) * np.ones(shape)
+    iz_guess = np.clip((Vs - vz_cold) / R - IL, np.exp(u_lo), 0.5 * iz_max)
+    u = np.where(off, u_lo, np.log(iz_guess))
+    lo, hi = u_lo.copy(), u_hi.copy()
+    step_before = hi - lo
+    converged = off.copy()
     for _ in range(max_iterations):
-        T = tj(V)
-        iz_model = model.current(V, T)
-        f = kcl(V) - iz_model
-        lo = np.where(f > 0, V, lo)
-        hi = np.where(f > 0, hi, V)
-        Z = model.impedance(np.maximum(iz_model, 1e-300))
-        dtj = Rth * (kcl(V) - V / R)
-        df = -1.0 / R - (1.0 - alpha_vz * dtj) / Z
-        newton = V - f / np.where(df < 0, df, -1.0 / R)
-        inside = (newton > lo) & (newton < hi) & (df < 0)
-        V_next = np.where(inside, newton, 0.5 * (lo + hi))
-        done = np.abs(V_next - V) <= tolerance * np.maximum(1.0, np.abs(V))
-        V = V_next
-        if np.all(done | collapsed):
+        iz = np.exp(u)
+        v = output(iz)
+        tj = junction(iz)
+        h = breakdown(iz, tj) - v
+        lo = np.where(h < 0, u, lo)
+        hi = np.where(h < 0, hi, u)
+        dtj = Rth * (v - iz * R)
+        z_plus_r = model._impedance(iz) + R
+        dh = iz * (z_plus_r + alpha_vz * dtj)
+        newton = u - h / np.where(dh > 0, dh, 1.0)
+        # Safeguarded Newton ("rtsafe", Press et al., Numerical Recipes): bisect where
+        # the step leaves the bracket or does not at least halve the step before it.
+        slow = np.abs(2.0 * h) > np.abs(step_before * dh)
+        use_newton = (newton >= lo) & (newton <= hi) & (dh > 0) & ~slow
+        u_next = np.where(use_newton, newton, 0.5 * (lo + hi))
+        step = np.abs(u_next - u)
+        # a step in ln Iz is a relative step in Iz; the voltage error it leaves is Iz·(Z + R)·step
+        done = (step * iz * z_plus_r <= tolerance * np.maximum(1.0, np.abs(v))) | (h == 0)
+        u = np.where(converged, u, u_next)
+        step_before = np.where(converged, step_before, step)
+        converged |= done
+        if converged.all():
             break
     else:
-        raise RuntimeError("solve_shunt: Newton/bisection on the output voltage did not converge")
-    V = np.where(collapsed, 0.0, V)
-    Iz = np.where(collapsed, 0.0, np.maximum(kcl(V), 0.0))
-    T = np.where(collapsed, Ta, tj(V))
+        raise RuntimeError("solve_shunt: safeguarded Newton on ln Iz did not converge")
+    Iz = np.where(off, 0.0, np.exp(u))
+    V = np.where(collapsed, 0.0, output(Iz))
+    T = np.where(collapsed, Ta, junction(Iz))
     return ShuntPoint(output_voltage=V, zener_current=Iz, junction_temperature=T, power=V * Iz,
                       collapsed=collapsed)
