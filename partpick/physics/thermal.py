@@ -10,7 +10,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.special import lambertw
 
-from partpick.physics._validate import finite, nonnegative, positive, scalar_or_array
+from partpick.physics._validate import nonnegative, positive, scalar_or_array
 from partpick.physics.constants import BOLTZMANN, ELEMENTARY_CHARGE, T0_K
 from partpick.physics.junction import ForwardModel
 

@@ -210,48 +210,61 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
     Vs, R, IL, Ta, Rth = (np.broadcast_to(x, shape).astype(float) for x in (Vs, R, IL, Ta, Rth))
     v_open = Vs - IL * R
     collapsed = v_open <= 0
-    alpha_vz = np.asarray(model.voltage) * np.asarray(model.temperature_coefficient)
-    Izt = np.asarray(model.test_current, dtype=float)
+    Izt, Zzt, Izk, Zzk, slope, dv_knee = model._shape()
+    full = {
+        "Vs": Vs, "R": R, "IL": IL, "Ta": Ta, "Rth": Rth,
+        "vz": np.asarray(model.voltage, dtype=float), "alpha": np.asarray(model.temperature_coefficient, dtype=float),
+        "ln_izt": np.log(Izt), "Izt": Izt, "Zzt": Zzt, "ln_izk": np.log(Izk), "ZzkIzk": Zzk * Izk,
+        "s": slope, "dv_knee": dv_knee,
+    }
+    full = {k: np.broadcast_to(v, shape).ravel() for k, v in full.items()}
 
     # The unknown is u = ln Iz. Kirchhoff gives V(Iz) = Vs − (Iz + IL)·R and the
     # self-heating Tj(Iz) = Ta + V·Iz·RthJA explicitly, and the root of
     # h(u) = Vz(Iz, Tj) − V(Iz) is unique (h rises with Iz). Below the knee Vz is
     # linear in u, above it both terms are smooth, so Newton in u is well behaved.
-    def output(iz):
-        return Vs - (iz + IL) * R
-
-    def junction(iz):
-        return np.maximum(Ta + np.maximum(output(iz), 0.0) * iz * Rth, 1.0)
-
-    iz_max = np.where(collapsed, 1.0, v_open / R)          # Iz at V = 0
-    u_hi = np.log(iz_max)
-    u_lo = np.log(_NEGLIGIBLE_CURRENT_FRACTION * Izt) * np.ones(shape)
-    u_lo = np.minimum(u_lo, u_hi - 1.0)
-    # Where even a negligible current already exceeds Vs − IL·R in breakdown, the
-    # Zener does not conduct: Iz ≈ 0 and V = Vs − IL·R.
-    vz25 = np.asarray(model.voltage, dtype=float)
-    alpha = np.asarray(model.temperature_coefficient, dtype=float)
-
-    def breakdown(iz, tj):
-        return vz25 * (1.0 + alpha * (tj - T0_K)) + model._delta(iz)
-
-    off = collapsed | (breakdown(np.exp(u_lo), junction(np.exp(u_lo))) - output(np.exp(u_lo)) >= 0)
-    vz_cold = np.asarray(model.base_voltage(Ta)) * np.ones(shape)
-    iz_guess = np.clip((Vs - vz_cold) / R - IL, np.exp(u_lo), 0.5 * iz_max)
-    u = np.where(off, u_lo, np.log(iz_guess))
-    lo, hi = u_lo.copy(), u_hi.copy()
-    step_before = hi - lo
-    converged = off.copy()
-    for _ in range(max_iterations):
+    def state(w, u):
         iz = np.exp(u)
-        v = output(iz)
-        tj = junction(iz)
-        h = breakdown(iz, tj) - v
+        v = w["Vs"] - (iz + w["IL"]) * w["R"]
+        tj = np.maximum(w["Ta"] + np.maximum(v, 0.0) * iz * w["Rth"], 1.0)
+        rel_t = u - w["ln_izt"]
+        knee = _interp_delta(np.clip(u, w["ln_izk"], w["ln_izt"]) - w["ln_izt"], w["s"], w["Zzt"] * w["Izt"])
+        delta = np.where(rel_t >= 0, w["Zzt"] * (iz - w["Izt"]),
+                         np.where(u >= w["ln_izk"], knee,
+                                  w["dv_knee"] + w["ZzkIzk"] * (np.minimum(u, w["ln_izk"]) - w["ln_izk"])))
+        h = w["vz"] * (1.0 + w["alpha"] * (tj - T0_K)) + delta - v
+        z = np.where(rel_t >= 0, w["Zzt"],
+                     np.where(u >= w["ln_izk"], w["Zzt"] * np.exp(w["s"] * np.minimum(rel_t, 0.0)),
+                              w["ZzkIzk"] / iz))
+        return iz, v, h, z
+
+    flat_collapsed = collapsed.ravel()
+    iz_max = np.where(flat_collapsed, 1.0, np.maximum(full["Vs"] - full["IL"] * full["R"], 1e-300) / full["R"])
+    u_hi = np.log(iz_max)
+    u_lo = np.minimum(np.log(_NEGLIGIBLE_CURRENT_FRACTION * full["Izt"]), u_hi - 1.0)
+    # Where even a negligible current in breakdown needs more than Vs − IL·R, the
+    # Zener does not conduct: Iz ≈ 0 and V = Vs − IL·R.
+    _, _, h_lo, _ = state(full, u_lo)
+    off = flat_collapsed | (h_lo >= 0)
+    vz_cold = full["vz"] * (1.0 + full["alpha"] * (full["Ta"] - T0_K))
+    iz_guess = np.clip((full["Vs"] - vz_cold) / full["R"] - full["IL"], np.exp(u_lo), 0.5 * iz_max)
+    u_result = np.where(off, u_lo, np.log(iz_guess))
+
+    # Work only on the elements still iterating; converged ones are written back and dropped.
+    index = np.flatnonzero(~off)
+    work = {k: v[index] for k, v in full.items()}
+    u = u_result[index]
+    lo, hi = u_lo[index], u_hi[index]
+    step_before = hi - lo
+    for _ in range(max_iterations):
+        if index.size == 0:
+            break
+        iz, v, h, z = state(work, u)
         lo = np.where(h < 0, u, lo)
         hi = np.where(h < 0, hi, u)
-        dtj = Rth * (v - iz * R)
-        z_plus_r = model._impedance(iz) + R
-        dh = iz * (z_plus_r + alpha_vz * dtj)
+        z_plus_r = z + work["R"]
+        dtj = work["Rth"] * (v - iz * work["R"])
+        dh = iz * (z_plus_r + work["vz"] * work["alpha"] * dtj)
         newton = u - h / np.where(dh > 0, dh, 1.0)
         # Safeguarded Newton ("rtsafe", Press et al., Numerical Recipes): bisect where
         # the step leaves the bracket or does not at least halve the step before it.
@@ -261,15 +274,21 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
         step = np.abs(u_next - u)
         # a step in ln Iz is a relative step in Iz; the voltage error it leaves is Iz·(Z + R)·step
         done = (step * iz * z_plus_r <= tolerance * np.maximum(1.0, np.abs(v))) | (h == 0)
-        u = np.where(converged, u, u_next)
-        step_before = np.where(converged, step_before, step)
-        converged |= done
-        if converged.all():
-            break
+        u_result[index[done]] = u_next[done]
+        if done.any():
+            keep = ~done
+            index = index[keep]
+            work = {k: w[keep] for k, w in work.items()}
+            u, lo, hi, step_before = u_next[keep], lo[keep], hi[keep], step[keep]
+        else:
+            u, step_before = u_next, step
     else:
-        raise RuntimeError("solve_shunt: safeguarded Newton on ln Iz did not converge")
-    Iz = np.where(off, 0.0, np.exp(u))
-    V = np.where(collapsed, 0.0, output(Iz))
-    T = np.where(collapsed, Ta, junction(Iz))
+        if index.size:
+            raise RuntimeError("solve_shunt: safeguarded Newton on ln Iz did not converge")
+    u_result = u_result.reshape(shape)
+    off = off.reshape(shape)
+    Iz = np.where(off, 0.0, np.exp(u_result))
+    V = np.where(collapsed, 0.0, Vs - (Iz + IL) * R)
+    T = np.where(collapsed, Ta, np.maximum(Ta + np.maximum(V, 0.0) * Iz * Rth, 1.0))
     return ShuntPoint(output_voltage=V, zener_current=Iz, junction_temperature=T, power=V * Iz,
                       collapsed=collapsed)
