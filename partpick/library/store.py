@@ -568,12 +568,21 @@ class Library:
             session.delete(stored)
 
     # -- identity ---------------------------------------------------------------------
-    def content_hash(self) -> str:
-        """SHA-256 of the parts (as their canonical CSV) and the policies: equal content, equal hash."""
+    def content_hash(self, parts: list[dict] | None = None) -> str:
+        """SHA-256 of the stored parts and policies: equal content, equal hash.
+
+        The parts are hashed as the exact ``repr`` of their values in column
+        order (floats round-trip exactly), so no CSV is written. A caller that
+        has just read the parts with `list_parts` may pass them to skip a
+        second read.
+        """
         with self._reading("read the library") as connection:
-            parts = self._load(connection)
+            if parts is None:
+                parts = self._load(connection)
             policies = sorted(connection.execute(select(_POLICY.c.name, _POLICY.c.body)).all())
-        digest = hashlib.sha256(csvio.parts_csv_text(parts).encode("utf-8"))
+        digest = hashlib.sha256()
+        names = FIELD_NAMES + ("fit_residual_mV",)
+        digest.update(repr([[part.get(name) for name in names] for part in parts]).encode("utf-8"))
         for name, body in policies:
             digest.update(b"\x00" + name.encode("utf-8") + b"\x00" + body.encode("utf-8"))
         return digest.hexdigest()
