@@ -1,0 +1,236 @@
+"""The machine and terminal formats of a check result: JSON, CSV and the text table."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+
+from partpick.report.words import (
+    CHECK_LABELS,
+    KEY_METRICS,
+    METRIC_LABELS,
+    METRIC_ORDER,
+    ROLE_LABELS,
+    clean_text,
+    first_failing,
+    format_value,
+    metric_unit,
+    smallest_margin,
+)
+
+__all__ = ["render_json", "render_csv", "render_table", "guard_cell", "find_non_finite", "shortlist_rows",
+           "pass_count_text", "delta_text"]
+
+
+# --- JSON --------------------------------------------------------------------------------------
+def find_non_finite(value, path: str = "result") -> str | None:
+    """The path of the first NaN or Infinity inside ``value`` (None when there is none)."""
+    if isinstance(value, float) and not math.isfinite(value):
+        return path
+    if isinstance(value, dict):
+        for key, item in value.items():
+            found = find_non_finite(item, f"{path}.{key}")
+            if found:
+                return found
+    elif isinstance(value, (list, tuple)):
+        for index, item in enumerate(value):
+            found = find_non_finite(item, f"{path}[{index}]")
+            if found:
+                return found
+    return None
+
+
+def render_json(result: dict) -> bytes:
+    """The result as JSON text (UTF-8): the result's own key order, indented, no NaN/Infinity.
+
+    Raises
+    ------
+    ValueError
+        The result holds a non-finite number (naming where) or a value that is not a JSON type.
+    """
+    bad = find_non_finite(result)
+    if bad:
+        raise ValueError(f"{bad} is not a finite number; a result must carry null instead of NaN or Infinity")
+    text = json.dumps(result, indent=2, ensure_ascii=False, allow_nan=False)
+    return (text + "\n").encode("utf-8")
+
+
+# --- CSV ---------------------------------------------------------------------------------------
+_FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r", "'")
+
+
+def guard_cell(text: str) -> str:
+    """SPEC §5's formula-injection guard: a text cell starting with = + - @ tab CR or ' gets one leading '."""
+    return "'" + text if text.startswith(_FORMULA_STARTS) else text
+
+
+def _cell(value) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        if not math.isfinite(value):
+            raise ValueError(f"a result value is not finite ({value!r})")
+        return repr(float(value)) if isinstance(value, float) else str(value)
+    return guard_cell(str(value))
+
+
+def _delta_cell(value):
+    """A delta as one cell: numbers and flags as they are, a change of lifecycle as 'active → nrnd'."""
+    if isinstance(value, dict) and set(value) == {"from", "to"}:
+        return f"{value['from'] or '—'} → {value['to'] or '—'}"
+    if isinstance(value, (dict, list)):
+        return json.dumps(value, ensure_ascii=False, allow_nan=False)
+    return value
+
+
+def pass_count_text(result: dict) -> str:
+    """'2 of 3 candidates pass' (from the result's summary when it has one: --top lists fewer)."""
+    candidates = result.get("candidates", [])
+    summary = result.get("summary") or {}
+    passing = summary.get("passing", sum(1 for c in candidates if c.get("passed")))
+    total = summary.get("candidates", len(candidates))
+    text = f"{passing} of {total} candidates pass every check"
+    listed = summary.get("listed", len(candidates))
+    if listed != total:
+        text += f"; {listed} listed"
+    return text
+
+
+def _check_names(candidates: list[dict]) -> list[str]:
+    names: list[str] = []
+    for candidate in candidates:
+        for check in candidate.get("checks", []):
+            if check.get("name") not in names:
+                names.append(check.get("name"))
+    return names
+
+
+def render_csv(result: dict, parts_by_number: dict | None = None) -> bytes:
+    """One row per candidate: rank, part, pass/fail, first failing check, every metric, every check's
+    value, margin and pass; price and lifecycle from the library. Text cells are formula-guarded."""
+    candidates = result.get("candidates", [])
+    parts_by_number = parts_by_number or {}
+    metrics = [k for k in METRIC_ORDER if any(k in (c.get("metrics") or {}) for c in candidates)]
+    extra_metrics = sorted({k for c in candidates for k in (c.get("metrics") or {})} - set(metrics))
+    checks = _check_names(candidates)
+    deltas = sorted({k for c in candidates for k in (c.get("deltas") or {})})
+    header = (["rank", "part_number", "kind", "package", "passed", "failed_checks", "first_failing_check",
+               "first_failing_margin_pct", "smallest_margin_pct", "price", "lifecycle"]
+              + metrics + extra_metrics
+              + [f"{name}_{field}" for name in checks for field in ("value", "unit", "margin_pct", "passed")]
+              + [f"delta_{k}" for k in deltas])
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\r\n")
+    writer.writerow(header)
+    for c in candidates:
+        part = parts_by_number.get(c.get("part_number")) or {}
+        first = first_failing(c)
+        by_name = {k.get("name"): k for k in c.get("checks", [])}
+        row = [c.get("rank"), c.get("part_number"), c.get("kind"), c.get("package"), c.get("passed"),
+               ";".join(c.get("failed_checks") or []), first.get("name") if first else None,
+               first.get("margin_pct") if first else None, smallest_margin(c), part.get("price"),
+               part.get("lifecycle")]
+        row += [(c.get("metrics") or {}).get(k) for k in metrics + extra_metrics]
+        for name in checks:
+            check = by_name.get(name) or {}
+            row += [check.get("value"), check.get("unit"), check.get("margin_pct"), check.get("passed")]
+        delta = c.get("deltas") or {}
+        row += [_delta_cell(delta.get(k)) for k in deltas]
+        writer.writerow([_cell(v) for v in row])
+    return out.getvalue().encode("utf-8")
+
+
+# --- text table --------------------------------------------------------------------------------
+def _margin_text(value) -> str:
+    return "—" if value is None else f"{value:+.1f} %".replace("-", "−")
+
+
+def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[list[str], list[list[str]]]:
+    """Header and rows of the ranked shortlist, as text (shared by the table and the HTML report)."""
+    role = (result.get("requirement") or {}).get("role", "series")
+    keys = KEY_METRICS.get(role, KEY_METRICS["series"])
+    if any((c.get("metrics") or {}).get("yield_pct") is not None for c in result.get("candidates", [])):
+        keys = keys + ("yield_pct",)
+    header = ["Rank", "Part", "Kind", "Package", "Result", "First failing check", "Smallest margin"]
+    header += [f"{METRIC_LABELS[k]}" for k in keys] + ["Price", "Lifecycle"]
+    parts_by_number = parts_by_number or {}
+    rows = []
+    for c in result.get("candidates", []):
+        first = first_failing(c)
+        if first is None:
+            failing = "—"
+        else:
+            failing = CHECK_LABELS.get(first.get("name"), clean_text(first.get("name")))
+            if first.get("margin_pct") is not None:
+                failing += f" ({_margin_text(first['margin_pct'])})"
+            elif first.get("reason"):
+                reason = clean_text(first["reason"])
+                failing += f" ({reason if len(reason) <= 40 else reason[:39] + '…'})"
+            more = len(c.get("failed_checks") or []) - 1
+            if more > 0:
+                failing += f" +{more} more"
+        part = parts_by_number.get(c.get("part_number")) or {}
+        metrics = c.get("metrics") or {}
+        row = [str(c.get("rank", "")), clean_text(c.get("part_number")), clean_text(c.get("kind")),
+               clean_text(c.get("package") or "—"), "pass" if c.get("passed") else "FAIL", failing,
+               _margin_text(smallest_margin(c))]
+        row += [format_value(metrics.get(k), metric_unit(k)) for k in keys]
+        row += [f"{part['price']:g}" if isinstance(part.get("price"), (int, float)) else "—",
+                clean_text(part.get("lifecycle") or "—")]
+        rows.append(row)
+    return header, rows
+
+
+def delta_text(value, key: str) -> str:
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, (int, float)):
+        unit = metric_unit(key)
+        sign = "+" if value > 0 else ""
+        return sign + format_value(value, unit) if unit else f"{value:+.4g}".replace("-", "−")
+    return clean_text(_delta_cell(value))
+
+
+def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
+    """The ranked shortlist as an aligned text table for a terminal."""
+    req = result.get("requirement") or {}
+    policy = result.get("policy") or {}
+    library = result.get("library") or {}
+    lines = [
+        f"Requirement: {clean_text(req.get('name', ''))} "
+        f"({ROLE_LABELS.get(req.get('role'), clean_text(req.get('role')))})",
+        f"Derating policy: {clean_text(policy.get('name', req.get('policy', '')))}"
+        f"   Objective: {clean_text(req.get('objective', ''))}",
+        f"Library: {clean_text(library.get('location', ''))}",
+        f"Shortlist: {pass_count_text(result)}",
+    ]
+    reference = result.get("reference")
+    if reference:
+        lines.append(f"Substitutes for {clean_text(reference.get('part_number'))} "
+                     f"(which {'passes' if reference.get('passed') else 'fails'} this requirement)")
+    lines.append("")
+    header, rows = shortlist_rows(result, parts_by_number)
+    if rows:
+        widths = [max(len(r[i]) for r in [header] + rows) for i in range(len(header))]
+        numeric = {0} | set(range(6, len(header) - 2))
+        def fmt(row):
+            cells = [(cell.rjust(w) if i in numeric else cell.ljust(w)) for i, (cell, w) in enumerate(zip(row, widths))]
+            return "  ".join(cells).rstrip()
+        lines.append(fmt(header))
+        lines.append("  ".join("-" * w for w in widths))
+        lines.extend(fmt(r) for r in rows)
+        deltas = [(c.get("part_number"), c["deltas"]) for c in result.get("candidates", []) if c.get("deltas")]
+        if deltas:
+            lines += ["", "Changes against the reference part:"]
+            for number, delta in deltas:
+                items = [f"{k} {delta_text(v, k)}" for k, v in delta.items()]
+                lines.append(f"  {clean_text(number)}: " + ", ".join(items))
+    else:
+        lines.append("No candidates: no part of the kinds this role considers passed the filters.")
+    lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
+                  "and measurements."]
+    return ("\n".join(lines) + "\n").encode("utf-8")

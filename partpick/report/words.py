@@ -1,0 +1,200 @@
+"""The words, units and published sources every report format shares (SPEC §8 vocabulary)."""
+
+from __future__ import annotations
+
+import math
+import re
+
+from partpick.checks.curves import corner_label, format_engineering
+
+__all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
+           "clean_text", "CAUTIONS", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
+           "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS"]
+
+ROLE_LABELS = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
+OBJECTIVE_LABELS = {"drop": "Lowest drop", "dissipation": "Lowest dissipation", "headroom": "Most headroom",
+                    "price": "Lowest price", "balanced": "Balanced"}
+
+CHECK_LABELS = {
+    "data_missing": "Data missing",
+    "feasible": "Resistor exists",
+    "forward_drop": "Forward drop",
+    "output_min": "Output minimum",
+    "reverse_voltage": "Reverse voltage",
+    "forward_current": "Forward current",
+    "power": "Power",
+    "junction_temp": "Junction temperature",
+    "reverse_runaway": "Reverse-state runaway",
+    "leakage": "Leakage",
+    "surge": "Surge I²t",
+    "zener_current_min": "Minimum Zener current",
+    "zener_power": "Zener power",
+    "regulation_error": "Regulation error",
+    "resistor_power": "Resistor power",
+}
+
+# SPEC §5 metric keys in their order.
+METRIC_ORDER = (
+    "forward_drop_V", "output_min_V", "output_max_V", "dissipation_W", "junction_temp_C", "reverse_voltage_V",
+    "reverse_headroom_V", "reverse_stress_pct", "leakage_A", "reverse_power_W", "vth0_V", "ron_ohm",
+    "series_resistor_ohm", "resistor_power_W", "resistor_power_class_W", "zener_current_min_A",
+    "zener_current_max_A", "zener_power_W", "regulation_error_pct", "line_regulation_mV_per_V",
+    "load_regulation_mV_per_mA", "yield_pct",
+)
+METRIC_LABELS = {
+    "forward_drop_V": "Forward drop", "output_min_V": "Output min", "output_max_V": "Output max",
+    "dissipation_W": "Dissipation", "junction_temp_C": "Tj", "reverse_voltage_V": "Reverse voltage",
+    "reverse_headroom_V": "Reverse headroom", "reverse_stress_pct": "Reverse stress", "leakage_A": "Leakage",
+    "reverse_power_W": "Reverse power", "vth0_V": "Hand model Vth0", "ron_ohm": "Hand model Ron",
+    "series_resistor_ohm": "Series resistor", "resistor_power_W": "Resistor power",
+    "resistor_power_class_W": "Resistor class", "zener_current_min_A": "Iz min", "zener_current_max_A": "Iz max",
+    "zener_power_W": "Zener power", "regulation_error_pct": "Regulation error",
+    "line_regulation_mV_per_V": "Line regulation", "load_regulation_mV_per_mA": "Load regulation",
+    "yield_pct": "Yield",
+}
+KEY_METRICS = {
+    "series": ("forward_drop_V", "dissipation_W", "junction_temp_C", "reverse_stress_pct"),
+    "zener_shunt": ("series_resistor_ohm", "regulation_error_pct", "zener_power_W", "junction_temp_C"),
+}
+# The part's rating each check stresses: (field, label, unit).
+RATING_OF_CHECK = {
+    "reverse_voltage": ("vrrm_V", "VRRM", "V"),
+    "forward_current": ("if_avg_A", "IF(AV)", "A"),
+    "power": ("pd_W", "Pd", "W"),
+    "zener_power": ("pd_W", "Pd", "W"),
+    "junction_temp": ("tj_max_C", "Tj max", "°C"),
+    "reverse_runaway": ("tj_max_C", "Tj max", "°C"),
+    "surge": ("ifsm_A", "IFSM", "A"),
+    "leakage": ("ir_A", "IR max (datasheet)", "A"),
+    "zener_current_min": ("izk_A", "Izk", "A"),
+}
+
+_SUFFIX_UNITS = (("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"), ("_pct_per_K", "%/K"),
+                 ("_ohm", "Ω"), ("_pct", "%"), ("_ms", "ms"), ("_eV", "eV"), ("_V", "V"),
+                 ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"))
+
+
+def metric_unit(key: str) -> str:
+    """The unit a metric key carries in its name (``forward_drop_V`` → ``V``)."""
+    for suffix, unit in _SUFFIX_UNITS:
+        if key.endswith(suffix):
+            return unit
+    return ""
+
+
+def format_value(value, unit: str = "", digits: int = 4) -> str:
+    """A result number for people: engineering notation, '—' when not known, yes/no for flags."""
+    if value is None:
+        return "—"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, (int, float)):
+        if not math.isfinite(value):
+            raise ValueError(f"a result value is not finite ({value!r}); results never carry NaN or Infinity")
+        if unit in ("mV/V", "mV/mA"):
+            return f"{value:.{digits}g} {unit}".replace("-", "−")
+        return format_engineering(value, unit, digits)
+    return clean_text(str(value))
+
+
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+
+
+def clean_text(text) -> str:
+    """User text with control characters (newlines, tabs, terminal escapes) shown as spaces."""
+    return _CONTROL.sub(" ", "" if text is None else str(text))
+
+
+def corner_text(corner: dict | None) -> str:
+    """A check's corner in the app's words: '11.0 V · 1.00 A · −20 °C · steady · Vz high · R low'."""
+    if not corner:
+        return "—"
+    text = corner_label(corner.get("supply_V"), corner.get("load_A"), corner.get("ambient_C"), corner.get("state"))
+    extra = []
+    if corner.get("vz_end"):
+        extra.append(f"Vz {corner['vz_end']}")
+    if corner.get("resistor_end"):
+        extra.append(f"R {corner['resistor_end']}")
+    return " · ".join([text] + extra) if extra else text
+
+
+def smallest_margin(candidate: dict) -> float | None:
+    """The smallest margin over the candidate's checks [%] (None when no check has one)."""
+    margins = [c["margin_pct"] for c in candidate.get("checks", []) if c.get("margin_pct") is not None]
+    return min(margins) if margins else None
+
+
+def first_failing(candidate: dict) -> dict | None:
+    """The first failing check (SPEC §4: the one with the most negative margin; `failed_checks` is in that order)."""
+    names = candidate.get("failed_checks") or []
+    checks = {c.get("name"): c for c in candidate.get("checks", [])}
+    if names:
+        return checks.get(names[0], {"name": names[0]})
+    failing = [c for c in candidate.get("checks", []) if not c.get("passed")]
+    return failing[0] if failing else None
+
+
+CAUTIONS = (
+    "Results are estimates computed from datasheet parameters and the models below; they are not "
+    "measurements. Verify every choice against the manufacturer's datasheet, with prototypes and with "
+    "measurements on the real circuit before relying on it.",
+    "Diodes in mains rectifiers, high-energy supplies and protection paths can fail violently (rupture, "
+    "fire) or fail short and leave circuits live. Such designs need the review of a qualified person.",
+    "Follow your local electrical codes and safety standards and defer to licensed practice; this report "
+    "does not replace them.",
+)
+
+# (what, formula, source) — the formulas the checks and curves use.
+FORMULAS = (
+    ("Thermal voltage", "VT = k·T/q (25.85 mV at 300 K)",
+     "k and q: CODATA values via scipy.constants."),
+    ("Forward branch (Shockley equation with series resistance)",
+     "I = Is·(exp((V − I·Rs)/(n·VT)) − 1);  V = n·VT·ln(1 + I/Is) + I·Rs",
+     "W. Shockley, “The theory of p-n junctions in semiconductors and p-n junction transistors”, "
+     "Bell System Technical Journal 28(3), 435–489, 1949."),
+    ("Source through a resistor (load line), exact",
+     "I = (n·VT/Rt)·W((Is·Rt/(n·VT))·exp((Vb + Is·Rt)/(n·VT))) − Is, Rt = R + Rs, computed as "
+     "W(e^z) = ω(z), z = ln(Is·Rt/(n·VT)) + (Vb + Is·Rt)/(n·VT)",
+     "A. Banwell, A. Jayakumar, “Exact analytical solution for current flow through diode with series "
+     "resistance”, Electronics Letters 36(4), 291–292, 2000; the Wright omega function ω: R. M. Corless, "
+     "D. J. Jeffrey, “The Wright ω function”, LNCS 2385, 2002."),
+    ("Temperature dependence",
+     "Is(T) = Is(T0)·(T/T0)^(m/n)·exp((Eg·q/(n·k))·(1/T0 − 1/T));  Rs(T) = Rs·(T/T0)^p",
+     "S. M. Sze, K. K. Ng, Physics of Semiconductor Devices, 3rd ed., Wiley, 2007. Defaults Eg 1.11 eV pn, "
+     "0.69 eV Schottky; m 3 pn, 2 Schottky."),
+    ("Maximum forward voltage",
+     "Is scaled down so that the curve passes through VF max at its current (25 °C) where that lies above "
+     "the typical curve; the checks use that model",
+     "partpick's method."),
+    ("Junction temperature and allowed power",
+     "Tj = Ta + P·RthJA;  Pallow(Ta) = Pd for Ta ≤ Tref, Pd·(Tj max − Ta)/(Tj max − Tref) above;  "
+     "RthJA = (Tj max − Tref)/Pd",
+     "JEDEC JESD51 (the RthJA junction-to-ambient thermal resistance); the linear derating curve of "
+     "datasheets."),
+    ("Self-heating",
+     "Tj = Ta + P(Tj)·RthJA solved per corner by Newton's method",
+     "Standard numerical practice (Newton iteration on the electrothermal balance)."),
+    ("Reverse leakage and reverse-state runaway",
+     "IR(T) = IR,rated·2^((T − Trated)/d)·max(1, VR/VR,rated); stable Tj of Tj = Ta + VR·IR(Tj)·RthJA "
+     "from the principal branch of Lambert W, runaway where none exists",
+     "Doubling every d = 10 K by default: common practice. Lambert W: Corless et al., “On the Lambert W "
+     "function”, Advances in Computational Mathematics 5, 329–359, 1996."),
+    ("Zener branch",
+     "Vz(Iz, Tj) = Vz·(1 + αVz·(Tj − 25 °C)) + ΔV(Iz); Z = Zzt above Izt, ln Z linear in ln Iz from Zzk at "
+     "Izk to Zzt at Izt",
+     "partpick's model of the datasheet's test and knee points."),
+    ("Hand model at the operating point",
+     "Ron = dV/dI = n·VT/(Iop + Is) + Rs;  Vth0 = Vf(Iop) − Iop·Ron, tangent at Iop = load_max_A at the Tj of "
+     "the worst-drop corner",
+     "The piecewise-linear diode model of the circuit textbooks."),
+    ("Preferred resistor values and power classes",
+     "E12, E24, E48, E96 across decades; classes 0.125, 0.25, 0.5, 1, 2, 3, 5 W",
+     "IEC 60063 (preferred number series for resistors); power classes: common practice."),
+    ("Margin",
+     "upper limit: 100·(limit − value)/|limit|; lower limit: 100·(value − limit)/|limit|; negative = fails",
+     "partpick's definition."),
+    ("high_reliability policy",
+     "reverse ≤ 70 % of VRRM, current ≤ 50 %, surge ≤ 50 %, Tj ≤ 125 °C, Zener power ≤ 50 %",
+     "In line with MIL-STD-975M appendix A as transcribed — a cancelled public standard; verify before "
+     "relying on it, and load your own organisation's derating policy for real reviews."),
+)
