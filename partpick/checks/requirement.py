@@ -1,0 +1,457 @@
+"""The requirement: what the circuit position demands, read from and written to TOML.
+
+A requirement file carries SI numbers with the unit in every key (SPEC §5).
+`load_requirement` reads one with the standard library's ``tomllib`` and
+validates every key; each problem is an `InputError` naming the file, the line,
+the key and the value. `requirement_to_toml` writes one back (``tomli_w``).
+
+Defaults live in `DEFAULTS` and `ZENER_DEFAULTS` only; `Requirement.to_dict`
+echoes them filled in, so every output states what was assumed.
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import re
+import tomllib
+from dataclasses import dataclass, field, fields
+from pathlib import Path
+from typing import Any
+
+from partpick.errors import InputError
+from partpick.library.fields import KINDS, LIFECYCLES
+
+__all__ = [
+    "Requirement",
+    "ZenerRequirement",
+    "DEFAULTS",
+    "ZENER_DEFAULTS",
+    "OBJECTIVES",
+    "AMBIENT_RANGE_C",
+    "REQUIRED_KEYS",
+    "ZENER_REQUIRED_KEYS",
+    "load_requirement",
+    "requirement_from_dict",
+    "requirement_from_toml",
+    "requirement_to_toml",
+]
+
+OBJECTIVES = ("drop", "dissipation", "headroom", "price", "balanced")
+RESISTOR_SERIES = ("E12", "E24", "E48", "E96")
+# Outside this the datasheet ratings (−65…+150/175 °C) mean nothing; a value
+# like 298 is usually kelvin typed where °C was meant.
+AMBIENT_RANGE_C = (-75.0, 200.0)
+
+REQUIRED_KEYS = ("name", "role", "supply_min_V", "supply_max_V", "load_min_A", "load_max_A",
+                 "ambient_min_C", "ambient_max_C")
+ZENER_REQUIRED_KEYS = ("target_V", "max_regulation_error_pct")
+
+# ---------------------------------------------------------------------------
+# THE defaults of a requirement (one place). A value of None is "not used"
+# unless its entry in DEFAULT_RULES says how it is derived.
+DEFAULTS: dict[str, Any] = {
+    "policy": "ratings_only",          # SPEC §4: no policy → limits are the ratings
+    "objective": "balanced",
+    "reverse_margin_pct": None,        # policy's reverse limit applies
+    "reverse_V": None,                 # derived: supply_max_V (the supply reversed)
+    "reverse_transient_V": None,
+    "max_forward_drop_V": None,
+    "min_output_V": None,
+    "max_leakage_A": None,
+    "tj_margin_K": None,               # policy's Tj margin applies
+    "current_derating_pct": None,      # policy's limit applies
+    "power_derating_pct": None,
+    "resistor_power_derating_pct": None,
+    "rth_ja_K_per_W": None,            # each part's own RthJA
+    "inrush_capacitance_F": None,
+    "inrush_source_ohm": None,
+    "kinds": None,                     # every kind the role considers
+    "packages": None,
+    "lifecycle": None,
+    "max_price": None,
+}
+ZENER_DEFAULTS: dict[str, Any] = {
+    "min_zener_current_A": None,       # derived per part: its Izk
+    "resistor_series": "E24",
+    "resistor_tolerance_pct": None,    # derived: 5 % E12/E24, 1 % E48/E96
+    "resistor_ohm": None,              # chosen from the series
+}
+DEFAULT_RULES = {
+    "reverse_V": "supply_max_V (the supply reversed)",
+    "zener.min_zener_current_A": "each part's izk_A",
+    "zener.resistor_tolerance_pct": "5 % for E12/E24, 1 % for E48/E96",
+    "zener.resistor_ohm": "the largest value of resistor_series that keeps Iz ≥ Iz min",
+}
+
+# How each key is checked: (kind, lower bound, lower inclusive, upper bound).
+_NUM = "number"
+_KEY_RULES: dict[str, tuple] = {
+    "supply_min_V": (_NUM, 0.0, False, 100e3),
+    "supply_max_V": (_NUM, 0.0, False, 100e3),
+    "load_min_A": (_NUM, 0.0, True, 10e3),
+    "load_max_A": (_NUM, 0.0, True, 10e3),
+    "ambient_min_C": (_NUM, AMBIENT_RANGE_C[0], True, AMBIENT_RANGE_C[1]),
+    "ambient_max_C": (_NUM, AMBIENT_RANGE_C[0], True, AMBIENT_RANGE_C[1]),
+    "reverse_margin_pct": (_NUM, 0.0, True, 1000.0),
+    "reverse_V": (_NUM, 0.0, True, 100e3),
+    "reverse_transient_V": (_NUM, 0.0, True, 100e3),
+    "max_forward_drop_V": (_NUM, 0.0, False, 1000.0),
+    "min_output_V": (_NUM, 0.0, True, 100e3),
+    "max_leakage_A": (_NUM, 0.0, False, 10.0),
+    "tj_margin_K": (_NUM, 0.0, True, 200.0),
+    "current_derating_pct": (_NUM, 0.0, False, 100.0),
+    "power_derating_pct": (_NUM, 0.0, False, 100.0),
+    "resistor_power_derating_pct": (_NUM, 0.0, False, 100.0),
+    "rth_ja_K_per_W": (_NUM, 0.0, False, 10e3),
+    "inrush_capacitance_F": (_NUM, 0.0, False, 10.0),
+    "inrush_source_ohm": (_NUM, 0.0, False, 1e6),
+    "max_price": (_NUM, 0.0, True, 1e9),
+}
+_ZENER_KEY_RULES: dict[str, tuple] = {
+    "target_V": (_NUM, 0.0, False, 1000.0),
+    "max_regulation_error_pct": (_NUM, 0.0, False, 100.0),
+    "min_zener_current_A": (_NUM, 0.0, False, 100.0),
+    "resistor_tolerance_pct": (_NUM, 0.0, True, 50.0),
+    "resistor_ohm": (_NUM, 0.0, False, 1e9),
+}
+_TEXT_KEYS = ("name", "role", "policy", "objective")
+_LIST_KEYS = {"kinds": KINDS, "packages": None, "lifecycle": LIFECYCLES}
+TOP_KEYS = tuple(dict.fromkeys(REQUIRED_KEYS + tuple(DEFAULTS) + ("zener",)))
+ZENER_KEYS = ZENER_REQUIRED_KEYS + tuple(ZENER_DEFAULTS)
+
+
+@dataclass(frozen=True)
+class ZenerRequirement:
+    """The ``[zener]`` table of a ``zener_shunt`` requirement (SI units, % as written)."""
+
+    target_V: float
+    max_regulation_error_pct: float
+    min_zener_current_A: float | None = ZENER_DEFAULTS["min_zener_current_A"]
+    resistor_series: str = ZENER_DEFAULTS["resistor_series"]
+    resistor_tolerance_pct: float | None = ZENER_DEFAULTS["resistor_tolerance_pct"]
+    resistor_ohm: float | None = ZENER_DEFAULTS["resistor_ohm"]
+
+    @property
+    def resistor_tolerance(self) -> float:
+        """The resistor tolerance in force [%] (the series' usual one when not given)."""
+        if self.resistor_tolerance_pct is not None:
+            return self.resistor_tolerance_pct
+        from partpick.physics.eseries import default_tolerance_pct
+
+        return default_tolerance_pct(self.resistor_series)
+
+    def to_dict(self) -> dict:
+        out = {f.name: getattr(self, f.name) for f in fields(self)}
+        out["resistor_tolerance_pct"] = self.resistor_tolerance
+        return out
+
+
+@dataclass(frozen=True)
+class Requirement:
+    """What a circuit position demands (SPEC §5). Units are in the names; temperatures in °C.
+
+    Build one with `load_requirement` or `requirement_from_dict`, which validate;
+    the constructor itself does not.
+    """
+
+    name: str
+    role: str
+    supply_min_V: float
+    supply_max_V: float
+    load_min_A: float
+    load_max_A: float
+    ambient_min_C: float
+    ambient_max_C: float
+    policy: str | None = None
+    objective: str = DEFAULTS["objective"]
+    reverse_margin_pct: float | None = None
+    reverse_V: float | None = None
+    reverse_transient_V: float | None = None
+    max_forward_drop_V: float | None = None
+    min_output_V: float | None = None
+    max_leakage_A: float | None = None
+    tj_margin_K: float | None = None
+    current_derating_pct: float | None = None
+    power_derating_pct: float | None = None
+    resistor_power_derating_pct: float | None = None
+    rth_ja_K_per_W: float | None = None
+    inrush_capacitance_F: float | None = None
+    inrush_source_ohm: float | None = None
+    kinds: tuple[str, ...] | None = None
+    packages: tuple[str, ...] | None = None
+    lifecycle: tuple[str, ...] | None = None
+    max_price: float | None = None
+    zener: ZenerRequirement | None = None
+    source: str = field(default="requirement", compare=False)
+
+    @property
+    def policy_name(self) -> str:
+        """The policy in force: the one named, else the built-in ``ratings_only``."""
+        return self.policy if self.policy is not None else DEFAULTS["policy"]
+
+    @property
+    def reverse_voltage(self) -> float:
+        """The reverse voltage the blocking diode sees [V] (SPEC §4)."""
+        base = self.reverse_V if self.reverse_V is not None else self.supply_max_V
+        if self.reverse_transient_V is not None:
+            return max(base, self.reverse_transient_V)
+        return base
+
+    def to_dict(self) -> dict:
+        """Every key with the defaults filled in (plain JSON types)."""
+        out: dict[str, Any] = {}
+        for f in fields(self):
+            if f.name in ("source", "zener"):
+                continue
+            value = getattr(self, f.name)
+            out[f.name] = list(value) if isinstance(value, tuple) else value
+        out["policy"] = self.policy_name
+        out["reverse_V"] = self.reverse_V if self.reverse_V is not None else self.supply_max_V
+        if self.zener is not None:
+            out["zener"] = self.zener.to_dict()
+        return out
+
+    def with_changes(self, **changes) -> "Requirement":
+        """A validated copy with some keys changed (used by the desktop app's form)."""
+        data = self.to_raw_dict()
+        for key, value in changes.items():
+            if key == "zener" and isinstance(value, ZenerRequirement):
+                value = {k: v for k, v in vars(value).items() if v is not None}
+            data[key] = value
+        data = {k: v for k, v in data.items() if v is not None}
+        return requirement_from_dict(data, self.source)
+
+    def to_raw_dict(self) -> dict:
+        """The keys as given (None where not given), the form TOML is written from."""
+        out: dict[str, Any] = {}
+        for f in fields(self):
+            if f.name == "source":
+                continue
+            value = getattr(self, f.name)
+            if isinstance(value, tuple):
+                value = list(value)
+            if isinstance(value, ZenerRequirement):
+                value = {g.name: getattr(value, g.name) for g in fields(value)}
+            out[f.name] = value
+        return out
+
+
+# ---------------------------------------------------------------------------
+# reading and validating
+
+def _key_line(text: str | None, table: str | None, key: str) -> int | None:
+    """Line number (1-based) of ``key = ...`` inside ``[table]`` (or the top level)."""
+    if not text:
+        return None
+    current: str | None = None
+    pattern = re.compile(rf"^\s*(?:\"{re.escape(key)}\"|'{re.escape(key)}'|{re.escape(key)})\s*=")
+    header = re.compile(r"^\s*\[\s*([^\]]+?)\s*\]")
+    for number, line in enumerate(text.splitlines(), start=1):
+        h = header.match(line)
+        if h:
+            current = h.group(1).strip().strip('"\'')
+            if table is not None and current == table and key == "":
+                return number
+            continue
+        if current == table and pattern.match(line):
+            return number
+    return None
+
+
+class _Reader:
+    """Collects the place of each problem: file, line, key."""
+
+    def __init__(self, source: str, text: str | None):
+        self.source = source
+        self.text = text
+
+    def where(self, key: str, table: str | None = None) -> str:
+        line = _key_line(self.text, table, key)
+        full = f"{table}.{key}" if table else key
+        return f"{self.source}, line {line}: {full}" if line else f"{self.source}: {full}"
+
+    def fail(self, key: str, message: str, table: str | None = None) -> None:
+        raise InputError(f"{self.where(key, table)}: {message}")
+
+
+def _suggest(word: str, valid) -> str:
+    close = difflib.get_close_matches(word, list(valid), n=1, cutoff=0.6)
+    if not close:
+        close = difflib.get_close_matches(word.lower(), [v.lower() for v in valid], n=1, cutoff=0.6)
+        close = [v for v in valid if v.lower() in close][:1]
+    return f" (did you mean '{close[0]}'?)" if close else ""
+
+
+def _number(reader: _Reader, key: str, value, rule: tuple, table: str | None = None) -> float:
+    _, low, low_inclusive, high = rule
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        reader.fail(key, f"{value!r} is not a number (a plain SI number is expected, e.g. 0.5)", table)
+    value = float(value)
+    if not math.isfinite(value):
+        reader.fail(key, f"{value!r} is not a finite number", table)
+    too_low = value < low if low_inclusive else value <= low
+    if too_low or value > high:
+        op = "≤" if low_inclusive else "<"
+        what = "must not be negative" if low == 0 and low_inclusive else "is out of range"
+        reader.fail(key, f"{value:g} {what} (allowed: {low:g} {op} value ≤ {high:g})", table)
+    return value
+
+
+def _text(reader: _Reader, key: str, value) -> str:
+    if not isinstance(value, str):
+        reader.fail(key, f"{value!r} is not text (write it in quotes)")
+    if not value.strip():
+        reader.fail(key, "is empty")
+    return value
+
+
+def _text_list(reader: _Reader, key: str, value, allowed) -> tuple[str, ...]:
+    if not isinstance(value, list) or not all(isinstance(v, str) for v in value):
+        reader.fail(key, f"{value!r} is not a list of text, e.g. [\"a\", \"b\"]")
+    if not value:
+        reader.fail(key, "is an empty list (leave the key out to allow every value)")
+    if allowed is not None:
+        for item in value:
+            if item not in allowed:
+                reader.fail(key, f"{item!r} is not one of {', '.join(allowed)}{_suggest(item, allowed)}")
+    return tuple(value)
+
+
+def _role_names() -> tuple[str, ...]:
+    from partpick.checks.roles import ROLES
+
+    return tuple(ROLES)
+
+
+def requirement_from_dict(data: dict, source: str = "requirement", *, text: str | None = None) -> Requirement:
+    """Validate a requirement given as a dict (the parsed TOML) and build it.
+
+    Parameters
+    ----------
+    data : dict
+        Keys of SPEC §5; ``zener`` is the ``[zener]`` table as a dict.
+    source : str
+        Where it came from (a file name), for the error messages.
+    text : str, optional
+        The TOML text, so that errors can name the line.
+
+    Raises
+    ------
+    InputError
+        The first problem, naming the source, line, key and value.
+    """
+    reader = _Reader(source, text)
+    if not isinstance(data, dict):
+        raise InputError(f"{source}: a requirement must be a table of keys, got {type(data).__name__}")
+    for key in data:
+        if key not in TOP_KEYS:
+            reader.fail(key, f"unknown key{_suggest(key, TOP_KEYS)}")
+    for key in REQUIRED_KEYS:
+        if key not in data:
+            raise InputError(f"{source}: required key {key!r} is missing (required: {', '.join(REQUIRED_KEYS)})")
+    values: dict[str, Any] = {}
+    for key in _TEXT_KEYS:
+        if key in data:
+            values[key] = _text(reader, key, data[key])
+    roles = _role_names()
+    if values["role"] not in roles:
+        reader.fail("role", f"{values['role']!r} is not a role (roles: {', '.join(roles)})"
+                            f"{_suggest(values['role'], roles)}")
+    if "objective" in values and values["objective"] not in OBJECTIVES:
+        reader.fail("objective", f"{values['objective']!r} is not an objective (objectives: "
+                                 f"{', '.join(OBJECTIVES)}){_suggest(values['objective'], OBJECTIVES)}")
+    for key, rule in _KEY_RULES.items():
+        if key in data:
+            values[key] = _number(reader, key, data[key], rule)
+    for key, allowed in _LIST_KEYS.items():
+        if key in data:
+            values[key] = _text_list(reader, key, data[key], allowed)
+
+    for low, high, unit in (("supply_min_V", "supply_max_V", "V"), ("load_min_A", "load_max_A", "A"),
+                            ("ambient_min_C", "ambient_max_C", "°C")):
+        if values[low] > values[high]:
+            reader.fail(low, f"{values[low]:g} {unit} is above {high} = {values[high]:g} {unit} (min above max)")
+    if ("inrush_capacitance_F" in values) != ("inrush_source_ohm" in values):
+        given = "inrush_capacitance_F" if "inrush_capacitance_F" in values else "inrush_source_ohm"
+        other = "inrush_source_ohm" if given == "inrush_capacitance_F" else "inrush_capacitance_F"
+        reader.fail(given, f"is given without {other} (the surge check needs both)")
+    if values["role"] == "series" and values["load_max_A"] <= 0:
+        reader.fail("load_max_A", f"{values['load_max_A']:g} A: a series diode needs a load current above 0")
+
+    zener = None
+    if "zener" in data:
+        zener = _zener_table(reader, data["zener"])
+    if values["role"] == "zener_shunt" and zener is None:
+        raise InputError(f"{source}: role 'zener_shunt' needs a [zener] table with "
+                         f"{', '.join(ZENER_REQUIRED_KEYS)}")
+    if zener is not None and zener.target_V >= values["supply_max_V"]:
+        reader.fail("target_V", f"{zener.target_V:g} V is not below supply_max_V = {values['supply_max_V']:g} V "
+                                "(a shunt regulator cannot raise its supply)", "zener")
+    return Requirement(**values, zener=zener, source=source)
+
+
+def _zener_table(reader: _Reader, table) -> ZenerRequirement:
+    if not isinstance(table, dict):
+        reader.fail("zener", f"{table!r} must be a table: write [zener] on its own line with its keys below it")
+    for key in table:
+        if key not in ZENER_KEYS:
+            reader.fail(key, f"unknown key in [zener]{_suggest(key, ZENER_KEYS)}", "zener")
+    for key in ZENER_REQUIRED_KEYS:
+        if key not in table:
+            raise InputError(f"{reader.source}: [zener] required key {key!r} is missing "
+                             f"(required: {', '.join(ZENER_REQUIRED_KEYS)})")
+    values: dict[str, Any] = {}
+    for key, rule in _ZENER_KEY_RULES.items():
+        if key in table:
+            values[key] = _number(reader, key, table[key], rule, "zener")
+    if "resistor_series" in table:
+        series = table["resistor_series"]
+        if not isinstance(series, str) or series.upper() not in RESISTOR_SERIES:
+            reader.fail("resistor_series", f"{series!r} is not one of {', '.join(RESISTOR_SERIES)}"
+                        f"{_suggest(str(series), RESISTOR_SERIES)}", "zener")
+        values["resistor_series"] = series.upper()
+    return ZenerRequirement(**values)
+
+
+def requirement_from_toml(text: str, source: str = "requirement") -> Requirement:
+    """Parse and validate requirement TOML text; see `requirement_from_dict`."""
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{source}: not valid TOML: {exc}") from exc
+    return requirement_from_dict(data, source, text=text)
+
+
+def load_requirement(path: str | Path) -> Requirement:
+    """Read and validate a requirement TOML file.
+
+    Raises
+    ------
+    InputError
+        The file cannot be read, is not TOML (the message gives tomllib's line
+        and column), or a key is missing, unknown or out of range (the message
+        names the line, key and value).
+    """
+    path = Path(path)
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read the requirement file ({exc.strerror or exc})") from exc
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{path}: not UTF-8 text (byte {exc.start}); a requirement is a TOML text file") from exc
+    return requirement_from_toml(text, str(path))
+
+
+def requirement_to_toml(requirement: Requirement) -> str:
+    """The requirement as TOML text (keys as given; defaults are not written, so they stay defaults)."""
+    import tomli_w
+
+    raw = requirement.to_raw_dict()
+    zener = raw.pop("zener")
+    top = {k: v for k, v in raw.items() if v is not None}
+    if zener is not None:
+        top["zener"] = {k: v for k, v in zener.items() if v is not None}
+    return tomli_w.dumps(top)

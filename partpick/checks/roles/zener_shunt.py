@@ -1,0 +1,308 @@
+"""The ``zener_shunt`` role: a resistor from the supply and a Zener across the load.
+
+SPEC §4. The resistor is the requirement's ``[zener].resistor_ohm`` (a
+finished design under review) or else the largest value of the E-series whose
+high end R·(1 + tol) still keeps Iz ≥ Iz min at the lowest supply and the
+highest load with the highest Zener voltage (the + tolerance end, the ambient
+end that raises Vz, self-heated at Iz min):
+
+    R ≤ (Vs,min − Vz,high(Iz min)) / ((IL,max + Iz min)·(1 + tol))
+
+(the common-practice design rule R ≤ (Vs,min − Vz,max)/(IL,max + Iz,min)).
+
+Every corner is then solved at both ends of the Vz tolerance and both ends of
+the resistor tolerance, Vout, Iz and Tj together
+(`partpick.physics.zener.solve_shunt`): points are 8 corners × 2 Vz ends ×
+2 resistor ends = 32, all in the ``steady`` state.
+"""
+
+from __future__ import annotations
+
+import itertools
+
+import numpy as np
+
+from partpick.checks.corners import corners_of
+from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
+from partpick.checks.roles.base import Role, RoleResult
+from partpick.physics.constants import T0_K, ZERO_CELSIUS_K
+from partpick.physics.eseries import RESISTOR_POWER_CLASSES_W, largest_at_most, smallest_power_class
+from partpick.physics.thermal import allowed_power
+from partpick.physics.zener import ZenerModel, solve_shunt
+
+__all__ = ["ZenerShuntRole", "ROLE", "zener_models_of", "choose_resistor"]
+
+_ENDS = ("low", "high")
+
+
+def zener_models_of(parts, shape_tail=(1,)):
+    """(low-end, high-end) Zener models and the nominal one, attributes shaped (P, 1).
+
+    Placeholders (Vz 5 V, ±5 %, Izt 5 mA, Zzt 10 Ω) stand in for parts without
+    data; the caller masks their results.
+    """
+    col = lambda a: np.asarray(a, dtype=float).reshape((-1,) + tuple(shape_tail))  # noqa: E731
+    vz = parts.value("vz_V", 5.0)
+    tol = parts.value("vz_tol_pct", 5.0)
+    izt = parts.value("izt_A", 5e-3)
+    izk = parts.raw["izk_A"]
+    izk = np.where(np.isfinite(izk) & (izk < izt), izk, np.nan)
+    common = dict(test_current=col(izt), test_impedance=col(parts.value("zzt_ohm", 10.0)), knee_current=col(izk),
+                  knee_impedance=col(np.where(np.isfinite(izk), parts.raw["zzk_ohm"], np.nan)),
+                  temperature_coefficient=col(parts.value("vz_tc_pct_per_K", 0.0) / 100.0))  # %/K → 1/K
+    low = ZenerModel(voltage=col(vz * (1 - tol / 100.0)), **common)
+    high = ZenerModel(voltage=col(vz * (1 + tol / 100.0)), **common)
+    nominal = ZenerModel(voltage=col(vz), **common)
+    return low, high, nominal
+
+
+def choose_resistor(requirement, high: ZenerModel, iz_min, rth, *, tolerance_pct, series):
+    """The largest preferred resistor keeping Iz ≥ Iz min at min supply and max load (SPEC §4).
+
+    Parameters
+    ----------
+    high : ZenerModel
+        The + tolerance end, attributes shaped (P, 1).
+    iz_min : ndarray (P,)
+        Iz min [A], > 0.
+    rth : ndarray (P,)
+        RthJA [K/W].
+
+    Returns
+    -------
+    resistance : ndarray (P,)
+        [ohm]; NaN where no resistor exists.
+    vz_high : ndarray (P,)
+        The highest Zener voltage at Iz min [V].
+    ambient_C : ndarray (P,)
+        The ambient end that raises Vz [°C].
+
+    Notes
+    -----
+    Vz,high = Vz⁺·(1 + αVz·(Tj − 25 °C)) + ΔV(Iz min) with Tj = Ta + Vz,high·Iz min·RthJA
+    is linear in Vz,high, so it is solved in closed form:
+    Vz,high = (Vz⁺·(1 + αVz·(Ta − T0)) + ΔV) / (1 − Vz⁺·αVz·Iz min·RthJA).
+    """
+    base = np.ravel(high.voltage)
+    alpha = np.ravel(high.temperature_coefficient)
+    ambient_C = np.where(alpha > 0, requirement.ambient_max_C, requirement.ambient_min_C)
+    ambient_K = ambient_C + ZERO_CELSIUS_K
+    dv = np.ravel(high.delta_voltage(iz_min[:, None]))
+    vz_high = (base * (1 + alpha * (ambient_K - T0_K)) + dv) / (1 - base * alpha * iz_min * rth)
+    bound = (requirement.supply_min_V - vz_high) / ((requirement.load_max_A + iz_min) * (1 + tolerance_pct / 100.0))
+    feasible = bound > 0
+    resistance = np.where(feasible, largest_at_most(np.where(feasible, bound, 1.0), series), np.nan)
+    return resistance, vz_high, ambient_C
+
+
+class ZenerShuntRole(Role):
+    name = "zener_shunt"
+    label = "Zener shunt regulator"
+    kinds = ("zener",)
+    objective_metrics = {"drop": "regulation_error_pct", "dissipation": "zener_power_W"}
+    supports_yield = True
+
+    def evaluate(self, requirement, parts, limits) -> RoleResult:
+        req = requirement
+        zr = req.zener
+        count = parts.count
+        corners = corners_of(req)
+        combos = list(itertools.product(range(len(corners)), range(2), range(2)))  # corner, vz end, R end
+        corner_idx = np.array([c for c, _, _ in combos])
+        vz_end = np.array([v for _, v, _ in combos])
+        r_end = np.array([r for _, _, r in combos])
+        points = PointTable(
+            supply_V=corners.supply_V[corner_idx], load_A=corners.load_A[corner_idx],
+            ambient_C=corners.ambient_C[corner_idx], state=("steady",) * len(combos),
+            vz_end=tuple(_ENDS[v] for v in vz_end), resistor_end=tuple(_ENDS[r] for r in r_end),
+        )
+        ids = np.arange(len(combos))
+
+        needs = Needs(parts)
+        thermal_needs = [("tj_max_C",)] if req.rth_ja_K_per_W is not None else [("tj_max_C",),
+                                                                                   ("pd_W", "rth_ja_K_per_W")]
+        zener_needs = [("vz_V",), ("vz_tol_pct",), ("izt_A",), ("zzt_ohm",)] + thermal_needs
+        iz_min_needs = [] if zr.min_zener_current_A is not None else [("izk_A",)]
+        for check in ("feasible", "zener_current_min", "zener_power", "junction_temp", "regulation_error",
+                      "resistor_power"):
+            needs.require(check, *zener_needs, *iz_min_needs)
+        bad = needs.any_missing()
+
+        thermal = thermal_data(parts, req.rth_ja_K_per_W)
+        rth = thermal.thermal_resistance
+        tj_max_K = thermal.tj_max_K
+        tj_max_C = tj_max_K - ZERO_CELSIUS_K
+        groups = parts.group
+        low, high, nominal = zener_models_of(parts)
+
+        if zr.min_zener_current_A is not None:
+            iz_min = np.full(count, zr.min_zener_current_A)
+            iz_min_source = "requirement [zener].min_zener_current_A"
+        else:
+            iz_min = parts.value("izk_A", 1e-4)
+            iz_min_source = "part izk_A (Iz min defaults to the knee current)"
+
+        tolerance_pct = zr.resistor_tolerance
+        if zr.resistor_ohm is not None:
+            resistance = np.full(count, zr.resistor_ohm)
+            _, vz_high, vz_high_ambient = choose_resistor(req, high, iz_min, rth, tolerance_pct=tolerance_pct,
+                                                          series=zr.resistor_series)
+            resistor_source = "requirement [zener].resistor_ohm"
+        else:
+            resistance, vz_high, vz_high_ambient = choose_resistor(req, high, iz_min, rth,
+                                                                   tolerance_pct=tolerance_pct,
+                                                                   series=zr.resistor_series)
+            resistor_source = f"largest {zr.resistor_series} value keeping Iz ≥ Iz min"
+        feasible = (req.supply_min_V > vz_high) & np.isfinite(resistance) & ~bad
+        # No operating points where data are missing, or where no resistor could be chosen; a given
+        # resistor (review mode) is solved even when the supply cannot keep the Zener regulating.
+        unsolved = bad | (~feasible if zr.resistor_ohm is None else np.zeros(count, dtype=bool))
+        infeasible_text = (f"supply too low for this Vz at max load: at {req.supply_min_V:g} V and "
+                           f"{req.load_max_A:g} A no resistor keeps Iz at or above Iz min, because the "
+                           "highest Zener voltage at Iz min (the check's limit) is not below the supply")
+
+        # ---- solve every corner × Vz end × R end ----------------------------------------
+        supply = points.supply_V[None, :]
+        load = points.load_A[None, :]
+        ambient_K = points.ambient_C[None, :] + ZERO_CELSIUS_K  # °C → K at the physics boundary
+        r_nominal = np.where(unsolved, 1000.0, resistance)
+        r_factor = np.where(r_end == 1, 1 + tolerance_pct / 100.0, 1 - tolerance_pct / 100.0)
+        R = r_nominal[:, None] * r_factor[None, :]
+        vz_points = np.where(vz_end[None, :] == 1, np.ravel(high.voltage)[:, None], np.ravel(low.voltage)[:, None])
+        model = ZenerModel(voltage=vz_points, test_current=low.test_current, test_impedance=low.test_impedance,
+                           knee_current=low.knee_current, knee_impedance=low.knee_impedance,
+                           temperature_coefficient=low.temperature_coefficient)
+        shunt = solve_shunt(model, supply, R, load, ambient_K, rth[:, None])
+        mask = unsolved[:, None]
+        vout = np.where(mask, np.nan, shunt.output_voltage)
+        iz = np.where(mask, np.nan, shunt.zener_current)
+        tj_C = np.where(mask, np.nan, shunt.junction_temperature - ZERO_CELSIUS_K)
+        pz = np.where(mask, np.nan, shunt.power)
+        p_resistor = (supply - vout) ** 2 / R
+        error = 100.0 * np.abs(vout - zr.target_V) / zr.target_V
+
+        missing_text = needs.data_missing_reason()
+        unsolved_reasons = [(bad, missing_text), (unsolved, infeasible_text)]
+
+        checks = []
+        # feasible: the lowest supply must exceed the highest Zener voltage at Iz min.
+        # Lowest supply, highest load, + Vz end, high resistor end, at the ambient end that raises Vz.
+        amb_pick = np.where(vz_high_ambient == req.ambient_max_C, 1, 0)
+        feasible_ids = np.array([_point_id(0, 1, 0, 1, 1), _point_id(0, 1, 1, 1, 1)])
+        check = worst_case_check(
+            "feasible", "V", np.full((count, 1), req.supply_min_V), np.where(bad, np.nan, vz_high), [0], "min",
+            "highest Zener voltage at Iz min (+ tolerance, the ambient end raising Vz, self-heated)",
+            reasons=[(bad, missing_text)], invalid=bad)
+        check.point = np.where(bad, -1, feasible_ids[amb_pick])
+        check.note = object_array(None, count)  # the value is known, so the words go in the note
+        check.note[~bad & ~feasible] = infeasible_text
+        check.passed = check.passed & feasible
+        checks.append(check)
+
+        checks.append(worst_case_check(
+            "zener_current_min", "A", iz, iz_min, ids, "min", iz_min_source, reasons=unsolved_reasons,
+            invalid=unsolved))
+        pow_pct, pow_src = limit_array(limits, groups, "power_pct")
+        p_allowed = allowed_power(ambient_K, thermal.power_rating[:, None], tj_max_K[:, None],
+                                  thermal.pd_ref_K[:, None])
+        pow_source = object_array([f"{pow_src[g]}: {limits[n]['power_pct'].value:g} % of Pallow(Ta)"
+                                   for g, n in enumerate(("pn", "schottky", "zener"))])[groups]
+        checks.append(worst_case_check(
+            "zener_power", "W", pz, p_allowed * pow_pct[:, None] / 100.0, ids, "max", pow_source,
+            reasons=unsolved_reasons, invalid=unsolved))
+        tj_lim, tj_src = tj_limit(limits, groups, tj_max_C)
+        checks.append(worst_case_check(
+            "junction_temp", "°C", tj_C, tj_lim, ids, "max", tj_src, reasons=unsolved_reasons, invalid=unsolved))
+        checks.append(worst_case_check(
+            "regulation_error", "%", error, np.full(count, zr.max_regulation_error_pct), ids, "max",
+            "requirement [zener].max_regulation_error_pct", reasons=unsolved_reasons, invalid=unsolved))
+
+        # resistor_power: the smallest class whose derated rating covers the worst power; fails above 5 W.
+        res_pct, res_src = limit_array(limits, groups, "resistor_power_pct")
+        p_res_max, p_res_col = worst_value(p_resistor, "max")
+        fraction = res_pct / 100.0
+        klass = np.full(count, np.nan)
+        for value in np.unique(fraction):  # one derating fraction per kind group: at most three passes
+            sel = fraction == value
+            klass[sel] = smallest_power_class(np.where(np.isfinite(p_res_max[sel]), p_res_max[sel], 0.0), value)
+        klass = np.where(np.isfinite(p_res_max), klass, np.nan)
+        rated = np.where(np.isfinite(klass), klass, RESISTOR_POWER_CLASSES_W[-1]) * fraction
+        rated = np.where(unsolved, np.nan, rated)
+        class_index = np.where(np.isfinite(klass), np.searchsorted(RESISTOR_POWER_CLASSES_W, klass), 
+                               len(RESISTOR_POWER_CLASSES_W))
+        texts = []
+        for g, name in enumerate(("pn", "schottky", "zener")):
+            pct_text = f"{res_src[g]}: {limits[name]['resistor_power_pct'].value:g} % of "
+            texts += [pct_text + f"the {k:g} W class rating" for k in RESISTOR_POWER_CLASSES_W]
+            texts.append(pct_text + f"the largest class ({RESISTOR_POWER_CLASSES_W[-1]:g} W)")
+        res_source = object_array(texts)[groups.astype(int) * (len(RESISTOR_POWER_CLASSES_W) + 1) + class_index]
+        check = worst_case_check(
+            "resistor_power", "W", p_res_max[:, None], rated, [0], "max", res_source, reasons=unsolved_reasons,
+            invalid=unsolved)
+        check.point = np.where(unsolved, -1, ids[p_res_col])
+        checks.append(check)
+
+        any_missing = bad
+        nan = np.full(count, np.nan)
+        checks.append(worst_case_check(
+            "data_missing", "", nan[:, None], nan, [-1], "max", "part record: the fields the checks need",
+            reasons=[(any_missing, missing_text)], present=any_missing))
+
+        # ---- metrics ------------------------------------------------------------------------
+        iz_lo, iz_lo_col = worst_value(iz, "min")
+        iz_hi, iz_hi_col = worst_value(iz, "max")
+        pz_max, pz_col = worst_value(pz, "max")
+        out_lo, out_lo_col = worst_value(vout, "min")
+        out_hi, out_hi_col = worst_value(vout, "max")
+        err_max, err_col = worst_value(error, "max")
+        tj_hi, tj_col = worst_value(tj_C, "max")
+        zzt = parts.value("zzt_ohm", 10.0)
+        r_ok = np.where(unsolved, np.nan, resistance)
+        metrics = {
+            "series_resistor_ohm": np.where(bad, np.nan, resistance),
+            "zener_current_min_A": iz_lo,
+            "zener_current_max_A": iz_hi,
+            "zener_power_W": pz_max,
+            "output_min_V": out_lo,
+            "output_max_V": out_hi,
+            "regulation_error_pct": err_max,
+            "junction_temp_C": tj_hi,
+            "resistor_power_W": p_res_max,
+            "resistor_power_class_W": klass,
+            # Small-signal regulation at Izt: ΔVo/ΔVs = Z/(R + Z) and ΔVo/ΔIL = −(R ∥ Z)
+            # (ohm = mV/mA), common practice (Sedra & Smith's shunt-regulator analysis).
+            "line_regulation_mV_per_V": 1000.0 * np.where(bad, np.nan, zzt) / (r_ok + zzt),
+            "load_regulation_mV_per_mA": -(r_ok * zzt) / (r_ok + zzt),
+        }
+        metric_points = {
+            "zener_current_min_A": iz_lo_col, "zener_current_max_A": iz_hi_col, "zener_power_W": pz_col,
+            "output_min_V": out_lo_col, "output_max_V": out_hi_col, "regulation_error_pct": err_col,
+            "junction_temp_C": tj_col, "resistor_power_W": p_res_col,
+        }
+        metric_points = {k: np.where(unsolved, -1, v) for k, v in metric_points.items()}
+        internals = {
+            "vz_low_V": np.ravel(low.voltage), "vz_high_V": np.ravel(high.voltage), "vz_V": np.ravel(nominal.voltage),
+            "izt_A": np.ravel(np.broadcast_to(nominal.test_current, (count, 1))),
+            "zzt_ohm": zzt, "izk_A": parts.raw["izk_A"], "zzk_ohm": parts.raw["zzk_ohm"],
+            "vz_tc_per_K": np.ravel(np.broadcast_to(nominal.temperature_coefficient, (count, 1))),
+            "iz_min_A": iz_min, "vz_high_at_iz_min_V": vz_high, "vz_high_ambient_C": vz_high_ambient,
+            "resistor_ohm": resistance, "resistor_tolerance_pct": np.full(count, tolerance_pct),
+            "resistor_source": object_array(resistor_source, count),
+            "rth_ja_K_per_W": rth, "pd_W": thermal.power_rating, "tj_max_C": tj_max_C, "tj_limit_C": tj_lim,
+            "feasible": feasible, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
+        }
+        return RoleResult(points, checks, metrics, metric_points, internals)
+
+    def yield_pct(self, requirement, parts, result: RoleResult, index, runs: int, seed: int) -> np.ndarray:
+        from partpick.checks.montecarlo import shunt_yield
+
+        return shunt_yield(requirement, parts, result, index, runs, seed)
+
+
+def _point_id(supply_end: int, load_end: int, ambient_end: int, vz_end: int, resistor_end: int) -> int:
+    """Column of a point: corners in `corners_of` order (supply, load, ambient), then Vz end, then R end."""
+    return ((supply_end * 2 + load_end) * 2 + ambient_end) * 4 + vz_end * 2 + resistor_end
+
+
+ROLE = ZenerShuntRole()

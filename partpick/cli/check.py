@@ -1,0 +1,131 @@
+"""`partpick check REQ.toml`: check every candidate of a library against a requirement.
+
+Exit codes (SPEC §5), judged on the command's subject — the whole candidate
+list (before ``--top``; it passes when one candidate passes), the part given
+with ``--part``, or the substitutes with ``--substitutes-for``:
+0 the subject passes, 3 it fails, 2 bad input, 1 anything else.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+from partpick.errors import InputError
+
+EXIT_PASS, EXIT_FAIL = 0, 3
+FORMATS = ("table", "json", "csv", "html", "pdf")
+
+
+def _positive_int(name: str):
+    def parse(text: str) -> int:
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{name}: {text!r} is not a whole number") from None
+        if value < 1:
+            raise argparse.ArgumentTypeError(f"{name}: {value} must be at least 1")
+        return value
+
+    return parse
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "check", help="check a library's parts against a requirement, rank them, write the shortlist or a report")
+    parser.add_argument("requirement", metavar="REQ.toml", help="the requirement file (TOML)")
+    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
+                        help="the library (a file or an SQLAlchemy URL); default: your own library")
+    parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default: table)")
+    parser.add_argument("--output", metavar="F", help="file to write (default: standard output)")
+    parser.add_argument("--top", type=_positive_int("--top"), metavar="N", help="list only the first N candidates")
+    parser.add_argument("--part", metavar="P", help="check this part only (its check sheet)")
+    parser.add_argument("--substitutes-for", metavar="P", dest="substitutes_for",
+                        help="list the parts that pass in place of P, with what changes")
+    parser.add_argument("--yield", type=_positive_int("--yield"), metavar="N", dest="yield_runs",
+                        help="Monte Carlo yield over N builds per listed candidate (zener_shunt)")
+    parser.add_argument("--seed", type=int, default=0, help=argparse.SUPPRESS)
+    parser.add_argument("--reviewer", metavar="NAME", help="reviewer named in html/pdf reports")
+    parser.set_defaults(func=run)
+
+
+def load_policies(library) -> dict:
+    """The library's policies as `Policy` objects (the built-ins are added by the checker).
+
+    Raises
+    ------
+    LibraryError
+        A stored policy is not valid (the library's content is damaged, not the user's input).
+    """
+    from partpick.checks.policy import Policy
+    from partpick.errors import LibraryError
+
+    policies = {}
+    for data in library.list_policies():
+        name = data.get("name", "?") if isinstance(data, dict) else "?"
+        try:
+            policy = Policy.from_dict(data, f"{library.location}: stored policy {name!r}")
+        except InputError as exc:
+            raise LibraryError(f"{exc} (the stored policy is damaged; import it again)") from exc
+        policies[policy.name] = policy
+    return policies
+
+
+def run(args) -> int:
+    from partpick.checks.requirement import load_requirement
+    from partpick.checks.service import run_check
+
+    requirement = load_requirement(args.requirement)
+    if args.part is not None and args.substitutes_for is not None:
+        raise InputError("partpick check: --part and --substitutes-for cannot be combined")
+    from partpick.library.store import open_library
+
+    with open_library(getattr(args, "library", None)) as library:
+        parts = library.list_parts()
+        policies = load_policies(library)
+        info = {"location": library.location, "content_hash": library.content_hash()}
+    result = run_check(requirement, parts, policies=policies, library=info, top=args.top, part=args.part,
+                       substitutes_for=args.substitutes_for, yield_runs=args.yield_runs, seed=args.seed,
+                       reviewer=args.reviewer)
+    parts_by_number = {p["part_number"]: p for p in parts}
+    data = _render(result, args.format, parts_by_number, requirement, args)
+    _write(data, args.output)
+    return EXIT_PASS if result["subject_passed"] else EXIT_FAIL
+
+
+def _render(result: dict, fmt: str, parts_by_number: dict, requirement, args) -> bytes:
+    try:
+        from partpick.report import render
+    except ImportError:  # the report layer is not installed: json and a plain table still work
+        render = None
+    if render is not None:
+        return render(result, fmt, parts_by_number=parts_by_number, requirement=requirement,
+                      reviewer=args.reviewer, part=args.part)
+    if fmt == "json":
+        return (json.dumps(result, indent=2, allow_nan=False, ensure_ascii=False) + "\n").encode("utf-8")
+    if fmt == "table":
+        return _plain_table(result).encode("utf-8")
+    raise InputError(f"--format {fmt}: this installation has no report layer (use json or table)")
+
+
+def _plain_table(result: dict) -> str:
+    lines = [f"{'rank':>4}  {'part':<20} {'kind':<14} {'passed':<6}  first failing check"]
+    for c in result["candidates"]:
+        first = c["failed_checks"][0] if c["failed_checks"] else ""
+        lines.append(f"{c['rank']:>4}  {c['part_number']:<20} {c['kind']:<14} {'yes' if c['passed'] else 'no':<6}  "
+                     f"{first}")
+    return "\n".join(lines) + "\n"
+
+
+def _write(data: bytes, output: str | None) -> None:
+    if output is None:
+        sys.stdout.buffer.write(data)
+        sys.stdout.flush()
+        return
+    path = Path(output)
+    try:
+        path.write_bytes(data)
+    except OSError as exc:
+        raise InputError(f"--output {output}: cannot write ({exc.strerror or exc})") from exc

@@ -1,0 +1,121 @@
+"""`partpick policy list | show NAME | import F.toml | export NAME [--output F]`: derating policies.
+
+The three built-ins (``ratings_only``, ``commercial``, ``high_reliability``)
+are always available and cannot be replaced; a library stores its own. Load
+your own organisation's derating policy with ``policy import``: the built-in
+``high_reliability`` is only in line with a cancelled public standard as
+transcribed.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from partpick.errors import InputError
+
+
+def _add_library_option(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
+                        help="the library (a file or an SQLAlchemy URL); default: your own library")
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser("policy", help="list, show, import and export derating policies")
+    commands = parser.add_subparsers(dest="policy_command", metavar="ACTION")
+    parser.set_defaults(func=_no_action)
+    listing = commands.add_parser("list", help="list the built-in and the library's policies")
+    _add_library_option(listing)
+    listing.set_defaults(func=_list)
+    show = commands.add_parser("show", help="print one policy as TOML")
+    show.add_argument("name", metavar="NAME")
+    _add_library_option(show)
+    show.set_defaults(func=_show)
+    importing = commands.add_parser("import", help="store a policy from a TOML file in the library")
+    importing.add_argument("file", metavar="F.toml")
+    _add_library_option(importing)
+    importing.set_defaults(func=_import)
+    export = commands.add_parser("export", help="write one policy as TOML")
+    export.add_argument("name", metavar="NAME")
+    export.add_argument("--output", metavar="F", help="file to write (default: standard output)")
+    _add_library_option(export)
+    export.set_defaults(func=_export)
+
+
+def _no_action(args) -> int:
+    raise InputError("partpick policy: choose an action: list, show, import or export")
+
+
+def _open(args):
+    from partpick.library.store import open_library
+
+    return open_library(getattr(args, "library", None))
+
+
+def _all_policies(library) -> dict:
+    from partpick.checks.policy import BUILTIN_POLICIES
+    from partpick.cli.check import load_policies
+
+    return {**load_policies(library), **BUILTIN_POLICIES}
+
+
+def _find(args):
+    import difflib
+
+    with _open(args) as library:
+        policies = _all_policies(library)
+    if args.name not in policies:
+        close = difflib.get_close_matches(args.name, list(policies), n=1)
+        hint = f" (did you mean '{close[0]}'?)" if close else ""
+        raise InputError(f"policy {args.name!r} is neither built in nor in the library{hint}")
+    return policies[args.name]
+
+
+def _list(args) -> int:
+    with _open(args) as library:
+        policies = _all_policies(library)
+    width = max(len(n) for n in policies)
+    for name in sorted(policies, key=lambda n: (not policies[n].builtin, n)):
+        policy = policies[name]
+        where = "built-in" if policy.builtin else "library"
+        print(f"{name:<{width}}  {where:<8}  {policy.description}")
+    return 0
+
+
+def _show(args) -> int:
+    from partpick.checks.policy import policy_to_toml
+
+    sys.stdout.write(policy_to_toml(_find(args)))
+    return 0
+
+
+def _import(args) -> int:
+    from partpick.checks.policy import BUILTIN_POLICIES, policy_from_toml
+
+    path = Path(args.file)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(f"{path}: cannot read the policy file ({getattr(exc, 'strerror', None) or exc})") from exc
+    policy = policy_from_toml(text, str(path))
+    if policy.name in BUILTIN_POLICIES:
+        raise InputError(f"{path}: name {policy.name!r} is a built-in policy; give yours its own name")
+    with _open(args) as library:
+        library.save_policy(policy.to_dict())
+        print(f"stored policy {policy.name} in {library.location}")
+    return 0
+
+
+def _export(args) -> int:
+    from partpick.checks.policy import policy_to_toml
+
+    text = policy_to_toml(_find(args))
+    if args.output is None:
+        sys.stdout.write(text)
+        return 0
+    try:
+        Path(args.output).write_text(text, encoding="utf-8")
+    except OSError as exc:
+        raise InputError(f"--output {args.output}: cannot write ({exc.strerror or exc})") from exc
+    return 0
