@@ -41,7 +41,6 @@ import numpy as np
 
 from partpick.physics.constants import T0_K, celsius_to_kelvin, kelvin_to_celsius
 from partpick.physics.eseries import default_tolerance_pct
-from partpick.physics.fit import FitRefused, fit_forward_model
 from partpick.physics.junction import (
     PN_BAND_GAP_EV,
     PN_TEMPERATURE_EXPONENT,
@@ -146,6 +145,10 @@ def _forward_model(part: dict, notes: list[str]) -> ForwardModel | None:
             notes.append("no forward model (is_A, n, rs_ohm) and too few VF points: no forward curve")
             return None
         current, voltage = (np.array(column, dtype=float) for column in zip(*points))
+        # imported here: scipy.optimize costs half a second of start-up that a
+        # JSON or table rendering never needs
+        from partpick.physics.fit import FitRefused, fit_forward_model
+
         try:
             fit = fit_forward_model(current, voltage, T0_K, band_gap, exponent)
         except FitRefused as exc:

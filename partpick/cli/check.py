@@ -85,7 +85,7 @@ def run(args) -> int:
     with open_library(getattr(args, "library", None)) as library:
         parts = library.list_parts()
         policies = load_policies(library)
-        info = {"location": library.location, "content_hash": library.content_hash()}
+        info = {"location": library.location, "content_hash": library.content_hash(parts)}
     result = run_check(requirement, parts, policies=policies, library=info, top=args.top, part=args.part,
                        substitutes_for=args.substitutes_for, yield_runs=args.yield_runs, seed=args.seed,
                        reviewer=args.reviewer)
