@@ -1,0 +1,505 @@
+"""The user's actions: one registry of commands, each with its menu entry and shortcut.
+
+A command is a plain function of the `Workbench` (the window's Qt-free state).
+Where it needs the user (a file name, the part editor, a confirmation) it asks
+``workbench.prompt``, which the window implements with dialogs and tests with
+a scripted stand-in — so every command runs, and is tested, without a window.
+The window builds its menus and shortcuts from `COMMANDS`; nothing else
+defines an action.
+
+Part edits go through the undo stack (`partpick.gui.undo`); opening another
+library or importing a CSV clears it (those are not undoable: the stack would
+otherwise undo into a library it no longer matches).
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Callable, Protocol
+
+from partpick.errors import InputError, LibraryError
+from partpick.gui.models import LibraryModel, RequirementModel, ResultModel
+from partpick.gui.observer import Signal
+
+__all__ = ["Command", "COMMANDS", "command", "Prompt", "Workbench", "CheckJob", "MENUS"]
+
+MENUS = ("File", "Library", "Part", "Edit", "Shortlist", "Help")
+
+
+class Prompt(Protocol):
+    """What commands may ask of the user (the window answers with dialogs)."""
+
+    def open_path(self, title: str, filter: str) -> str | None: ...
+    def save_path(self, title: str, filter: str, suggested: str = "") -> str | None: ...
+    def edit_part(self, part: dict | None, title: str) -> dict | None: ...
+    def confirm(self, title: str, text: str) -> bool: ...
+    def show_error(self, title: str, text: str) -> None: ...
+    def show_info(self, title: str, text: str) -> None: ...
+    def show_problems(self, title: str, summary: str, problems: list[str]) -> None: ...
+    def run_with_progress(self, title: str, work: Callable) -> object: ...
+    def show_compare(self, part_numbers: list[str]) -> None: ...
+    def show_substitutes(self, part_number: str) -> None: ...
+    def show_help(self) -> None: ...
+    def show_about(self) -> None: ...
+    def export_curves(self, path: str) -> None: ...
+    def quit(self) -> None: ...
+
+
+@dataclass(frozen=True)
+class Command:
+    """A user action: ``id``, its menu entry (``menu``, ``title``), shortcuts and the function."""
+
+    id: str
+    title: str
+    menu: str
+    shortcuts: tuple[str, ...]
+    run: Callable[["Workbench"], object]
+    tip: str = ""
+    needs_part: bool = False  # enabled only when a library part is selected
+
+
+COMMANDS: dict[str, Command] = {}
+
+
+def command(id: str, title: str, menu: str, *shortcuts: str, tip: str = "", needs_part: bool = False):
+    """Register the decorated function as a command (once; a second id is a bug)."""
+
+    def register(function):
+        if id in COMMANDS:
+            raise RuntimeError(f"command {id!r} registered twice")
+        COMMANDS[id] = Command(id, title, menu, tuple(shortcuts), function, tip, needs_part)
+        return function
+
+    return register
+
+
+@dataclass
+class CheckJob:
+    """One run of the checker over the whole library, as ``partpick check`` does it.
+
+    Built on the UI thread from immutable snapshots, run anywhere (`run` touches
+    no model), so a job in a worker thread cannot see a half-made edit.
+    """
+
+    requirement: object
+    parts: list
+    policies: dict
+    library: dict
+    generation: int = 0
+    options: dict = field(default_factory=dict)
+
+    def run(self) -> tuple[dict, float]:
+        from partpick.checks.service import run_check
+
+        start = time.perf_counter()
+        result = run_check(self.requirement, self.parts, policies=self.policies, library=self.library,
+                           **self.options)
+        return result, (time.perf_counter() - start) * 1e3
+
+
+class Workbench:
+    """The window's state without the window: the three models, the undo stack, the prompt.
+
+    Signals
+    -------
+    recent_changed()
+        The list of recent libraries changed (the window persists it).
+    """
+
+    MAX_RECENT = 8
+
+    def __init__(self, library=None, *, prompt: Prompt | None = None, undo_stack=None) -> None:
+        from PySide6.QtGui import QUndoStack  # a QObject, no window or event loop needed
+
+        self.requirement = RequirementModel()
+        self.library = LibraryModel()
+        self.result = ResultModel()
+        self.undo_stack = undo_stack if undo_stack is not None else QUndoStack()
+        self.prompt = prompt
+        self.recent_libraries: list[str] = []
+        self.recent_requirements: list[str] = []
+        self.recent_changed = Signal()
+        self.selection_changed = Signal()
+        self.selected_parts: list[str] = []  # the library table's selection (set with select_parts)
+        self.library.library_changed.connect(self._library_opened)
+        self.library.parts_changed.connect(lambda: self.select_parts(self.selected_parts))
+        if library is not None:
+            self.library.set_library(library)
+
+    # -- library ------------------------------------------------------------
+    def _library_opened(self) -> None:
+        self.undo_stack.clear()
+        self.requirement.set_policy_names(self.library.policy_names())
+        location = self.library.location
+        if location:
+            self.add_recent(location)
+
+    def select_parts(self, part_numbers) -> None:
+        """The library parts the part commands act on (the library table shows the same)."""
+        part_numbers = [p for p in part_numbers if self.library.get_part(p) is not None]
+        if part_numbers != self.selected_parts:
+            self.selected_parts = part_numbers
+            self.selection_changed.emit()
+
+    def add_recent(self, location: str, *, kind: str = "libraries") -> None:
+        """Put a library (or, with ``kind="requirements"``, a requirement file) first in its recent list."""
+        name = f"recent_{kind}"
+        current = getattr(self, name)
+        recent = ([location] + [r for r in current if r != location])[: self.MAX_RECENT]
+        if recent != current:
+            setattr(self, name, recent)
+            self.recent_changed.emit()
+
+    def has_library(self, title: str) -> bool:
+        """True when a library is open; otherwise tell the user and return False."""
+        if self.library.library is None:
+            self.prompt.show_error(title, "No library is open: open or create one first (Library menu).")
+            return False
+        return True
+
+    def open_library_at(self, location: str | Path | None, *, create: bool = False) -> None:
+        """Open (or create) a library and make it the window's (LibraryError if it cannot)."""
+        from partpick.library.store import open_library
+
+        self.library.set_library(open_library(location, create=create))
+
+    # -- checking -----------------------------------------------------------
+    def check_job(self, generation: int = 0, **options) -> CheckJob:
+        """A check of the current requirement over the whole library (InputError if the form has errors)."""
+        requirement = self.requirement.build_requirement()
+        return CheckJob(requirement, list(self.library.parts), self.library.policies(),
+                        self.library.library_info(), generation, options)
+
+    def selected_candidate(self) -> str | None:
+        return self.result.selected[0] if self.result.selected else None
+
+    def close(self) -> None:
+        self.undo_stack.clear()
+        self.library.close()
+
+
+# ---------------------------------------------------------------------------
+# File: requirements
+_TOML = "Requirement (*.toml);;All files (*)"
+_CSV = "Parts CSV (*.csv);;All files (*)"
+_LIBRARY = "Library (*.sqlite *.db);;All files (*)"
+
+
+@command("requirement.new", "&New requirement", "File", "Ctrl+N", tip="Start a new requirement (policy: commercial)")
+def new_requirement(bench: Workbench) -> None:
+    bench.requirement.reset()
+
+
+def load_requirement_file(bench: Workbench, path: str | Path) -> None:
+    """Read a requirement TOML into the form (the checker's reader judges it first)."""
+    import tomllib
+
+    from partpick.checks.requirement import load_requirement
+
+    load_requirement(path)  # InputError naming file, line and key
+    with open(path, "rb") as handle:
+        data = tomllib.load(handle)
+    bench.requirement.load_dict(data, source=str(path))
+    bench.requirement.path = str(path)
+    bench.add_recent(str(Path(path).resolve()), kind="requirements")
+
+
+@command("requirement.open", "&Open requirement…", "File", "Ctrl+O", tip="Open a requirement TOML file")
+def open_requirement(bench: Workbench) -> None:
+    path = bench.prompt.open_path("Open requirement", _TOML)
+    if not path:
+        return
+    try:
+        load_requirement_file(bench, path)
+    except (InputError, OSError) as exc:
+        bench.prompt.show_error("Open requirement", str(exc))
+
+
+def save_requirement_file(bench: Workbench, path: str | Path) -> None:
+    from partpick.checks.requirement import requirement_to_toml
+
+    text = requirement_to_toml(bench.requirement.build_requirement())
+    tmp = Path(f"{path}.tmp")
+    tmp.write_text(text, encoding="utf-8")
+    tmp.replace(path)  # whole file or nothing
+    bench.requirement.path = str(path)
+    bench.add_recent(str(Path(path).resolve()), kind="requirements")
+
+
+@command("requirement.save", "&Save requirement", "File", "Ctrl+S", tip="Save the requirement as TOML")
+def save_requirement(bench: Workbench) -> None:
+    path = bench.requirement.path or bench.prompt.save_path("Save requirement", _TOML, "requirement.toml")
+    if path:
+        _save_requirement_reporting(bench, path)
+
+
+@command("requirement.save_as", "Save requirement &as…", "File", "Ctrl+Shift+S")
+def save_requirement_as(bench: Workbench) -> None:
+    path = bench.prompt.save_path("Save requirement as", _TOML, bench.requirement.path or "requirement.toml")
+    if path:
+        _save_requirement_reporting(bench, path)
+
+
+def _save_requirement_reporting(bench: Workbench, path) -> None:
+    try:
+        save_requirement_file(bench, path)
+    except (InputError, OSError) as exc:
+        bench.prompt.show_error("Save requirement", f"Not saved: {exc}")
+
+
+# ---------------------------------------------------------------------------
+# File: report
+def export_report_file(bench: Workbench, path: str | Path, fmt: str | None = None) -> None:
+    """Write the review report (HTML or PDF): the shortlist, and the check sheet and curves of the
+    selected shortlist part (the top part when none is selected), as ``partpick check --part`` does."""
+    from partpick.report import render
+
+    fmt = fmt or Path(path).suffix.lstrip(".").lower()
+    if fmt not in ("html", "pdf"):
+        raise InputError(f"report: {Path(path).name!r}: give a .html or .pdf file name")
+    job = bench.check_job()
+    result, _ = job.run()
+    parts_by_number = {p["part_number"]: p for p in job.parts}
+    data = render(result, fmt, parts_by_number=parts_by_number, requirement=job.requirement,
+                  part=bench.selected_candidate())
+    tmp = Path(f"{path}.tmp")
+    tmp.write_bytes(data)
+    tmp.replace(path)
+
+
+@command("report.export", "&Export report…", "File", "Ctrl+E",
+         tip="Export the review report of the selected shortlist part (HTML or PDF)")
+def export_report(bench: Workbench) -> None:
+    if not bench.has_library("Export report"):
+        return
+    part = bench.selected_candidate() or "shortlist"
+    path = bench.prompt.save_path("Export report", "HTML report (*.html);;PDF report (*.pdf)", f"{part}.html")
+    if not path:
+        return
+    try:
+        export_report_file(bench, path)
+    except (InputError, OSError, LibraryError) as exc:
+        bench.prompt.show_error("Export report", f"No report written: {exc}")
+
+
+@command("curves.export", "Save curves &image…", "File", "Ctrl+Shift+I",
+         tip="Save the visible curves as PNG or SVG")
+def export_curves(bench: Workbench) -> None:
+    path = bench.prompt.save_path("Save curves image", "PNG image (*.png);;SVG image (*.svg)", "curves.png")
+    if not path:
+        return
+    try:
+        bench.prompt.export_curves(path)
+    except (OSError, RuntimeError) as exc:
+        bench.prompt.show_error("Save curves image", f"No image written: {exc}")
+
+
+@command("app.quit", "&Quit", "File", "Ctrl+Q")
+def quit_app(bench: Workbench) -> None:
+    bench.prompt.quit()
+
+
+# ---------------------------------------------------------------------------
+# Library
+@command("library.new", "&New library…", "Library", "Ctrl+Shift+N", tip="Create an empty library file")
+def new_library(bench: Workbench) -> None:
+    path = bench.prompt.save_path("New library", _LIBRARY, "parts.sqlite")
+    if not path:
+        return
+    try:
+        bench.open_library_at(path, create=True)
+    except (LibraryError, InputError) as exc:
+        bench.prompt.show_error("New library", str(exc))
+
+
+@command("library.open", "&Open library…", "Library", "Ctrl+L", tip="Open a library file")
+def open_library(bench: Workbench) -> None:
+    path = bench.prompt.open_path("Open library", _LIBRARY)
+    if not path:
+        return
+    try:
+        bench.open_library_at(path)
+    except (LibraryError, InputError) as exc:
+        bench.prompt.show_error("Open library", str(exc))
+
+
+def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
+    """Import a parts CSV into the library: every row or none.
+
+    The file is read through once as a dry run, so that a bad file changes
+    nothing and every bad row is listed; then it is imported under the
+    progress dialog, which may cancel (the store then writes nothing).
+    Returns the store's summary, or None when refused or cancelled.
+    """
+    if not bench.has_library("Import CSV"):
+        return None
+    library = bench.library.library
+    try:
+        library.import_csv(path, dry_run=True)
+    except InputError as exc:
+        bench.prompt.show_problems("Import CSV", f"{Path(path).name}: nothing imported.", _problem_lines(exc))
+        return None
+    except (LibraryError, OSError) as exc:
+        bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: {exc}")
+        return None
+
+    def work(progress, cancel):
+        return library.import_csv(path, progress=progress, cancel=cancel)
+
+    try:
+        summary = bench.prompt.run_with_progress(f"Importing {Path(path).name}", work)
+    except InputError as exc:
+        bench.prompt.show_problems("Import CSV", f"{Path(path).name}: nothing imported.", _problem_lines(exc))
+        summary = None
+    except (LibraryError, OSError) as exc:
+        bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: {exc}")
+        summary = None
+    bench.library.reload()
+    if summary is not None:
+        bench.undo_stack.clear()
+    return summary
+
+
+def _problem_lines(exc: InputError) -> list[str]:
+    """Every bad row of a refused CSV, one line each (the store's CsvInputError lists them)."""
+    problems = getattr(exc, "problems", None)
+    if problems:
+        source = getattr(exc, "source", "")
+        return [p.text(source) if hasattr(p, "text") else str(p) for p in problems]
+    return [str(exc)]
+
+
+@command("library.import", "&Import CSV…", "Library", "Ctrl+I", tip="Import parts from a CSV file")
+def import_csv(bench: Workbench) -> None:
+    if not bench.has_library("Import CSV"):
+        return
+    path = bench.prompt.open_path("Import CSV", _CSV)
+    if path:
+        import_csv_file(bench, path)
+
+
+@command("library.export", "E&xport CSV…", "Library", "Ctrl+Shift+E", tip="Export every part to a CSV file")
+def export_csv(bench: Workbench) -> None:
+    if not bench.has_library("Export CSV"):
+        return
+    path = bench.prompt.save_path("Export CSV", _CSV, "parts.csv")
+    if not path:
+        return
+    try:
+        bench.library.library.export_csv(path)
+    except (LibraryError, OSError) as exc:
+        bench.prompt.show_error("Export CSV", str(exc))
+
+
+# ---------------------------------------------------------------------------
+# Part (library table selection)
+@command("part.add", "&Add part…", "Part", "Ins", tip="Enter a new part")
+def add_part(bench: Workbench) -> None:
+    from partpick.gui.undo import SavePart
+
+    if not bench.has_library("Add part"):
+        return
+    part = bench.prompt.edit_part(None, "Add part")
+    if part is not None:
+        _push(bench, SavePart(bench.library, part, None))
+
+
+@command("part.edit", "&Edit part…", "Part", "F2", needs_part=True)
+def edit_part(bench: Workbench) -> None:
+    from partpick.gui.undo import SavePart
+
+    if not bench.selected_parts:
+        return
+    old = bench.library.get_part(bench.selected_parts[0])
+    part = bench.prompt.edit_part(old, f"Edit {old['part_number']}")
+    if part is not None and part != old:
+        _push(bench, SavePart(bench.library, part, old["part_number"]))
+
+
+@command("part.duplicate", "&Duplicate part", "Part", "Ctrl+D", needs_part=True)
+def duplicate_part(bench: Workbench) -> None:
+    from partpick.gui.undo import SavePart
+
+    if not bench.selected_parts:
+        return
+    old = bench.library.get_part(bench.selected_parts[0])
+    copy = dict(old, part_number=bench.library.free_part_number(old["part_number"]))
+    if _push(bench, SavePart(bench.library, copy, None, text=f"Duplicate {old['part_number']}")):
+        bench.select_parts([copy["part_number"]])
+
+
+@command("part.delete", "De&lete part", "Part", "Del", needs_part=True)
+def delete_part(bench: Workbench) -> None:
+    from partpick.gui.undo import DeleteParts
+
+    if bench.selected_parts:
+        _push(bench, DeleteParts(bench.library, list(bench.selected_parts)))
+
+
+def _push(bench: Workbench, step) -> bool:
+    """Do an undoable step; say so and return False when the store refused it."""
+    from partpick.gui.undo import take_error
+
+    take_error()
+    bench.undo_stack.push(step)
+    error = take_error()
+    if error:
+        bench.prompt.show_error(step.text(), error)
+    return not error
+
+
+# ---------------------------------------------------------------------------
+# Edit
+@command("edit.undo", "&Undo", "Edit", "Ctrl+Z")
+def undo(bench: Workbench) -> None:
+    _undoing(bench, bench.undo_stack.undo)
+
+
+@command("edit.redo", "&Redo", "Edit", "Ctrl+Y", "Ctrl+Shift+Z")
+def redo(bench: Workbench) -> None:
+    _undoing(bench, bench.undo_stack.redo)
+
+
+def _undoing(bench: Workbench, step) -> None:
+    from partpick.gui.undo import take_error
+
+    step()
+    error = take_error()
+    if error:
+        bench.prompt.show_error("Undo", error)
+
+
+# ---------------------------------------------------------------------------
+# Shortlist
+@command("shortlist.compare", "&Compare selected", "Shortlist", "Ctrl+Shift+C",
+         tip="What changes if B replaces A: two to four shortlist parts side by side")
+def compare(bench: Workbench) -> None:
+    chosen = bench.result.selected[:4]
+    if len(chosen) < 2:
+        bench.prompt.show_info("Compare", "Select two to four parts in the shortlist (Ctrl+click).")
+        return
+    bench.prompt.show_compare(chosen)
+
+
+@command("shortlist.substitutes", "Find &substitutes", "Shortlist", "Ctrl+Shift+F",
+         tip="Parts that pass the same requirement in place of the selected one")
+def substitutes(bench: Workbench) -> None:
+    part = bench.selected_candidate()
+    if part is None:
+        bench.prompt.show_info("Substitutes", "Select a part in the shortlist first.")
+        return
+    bench.prompt.show_substitutes(part)
+
+
+# ---------------------------------------------------------------------------
+# Help
+@command("help.formulas", "&Formulas, sources and cautions", "Help", "F1")
+def help_formulas(bench: Workbench) -> None:
+    bench.prompt.show_help()
+
+
+@command("help.about", "&About partpick", "Help")
+def help_about(bench: Workbench) -> None:
+    bench.prompt.show_about()

@@ -1,0 +1,291 @@
+"""The curves of the selected shortlist parts, drawn by `partpick.plots` from `partpick.checks.curves`.
+
+One plot per selected part (up to four side by side, axes linked so they
+compare at a glance), one tab per kind of curve. Only the visible tab is
+redrawn after a recheck; the others redraw when shown. The plot items are
+kept and only their contents replaced, so a redraw costs the drawing alone.
+"""
+
+from __future__ import annotations
+
+import pyqtgraph as pg
+from PySide6.QtCore import Signal
+from PySide6.QtGui import QPalette
+from PySide6.QtWidgets import QGridLayout, QHBoxLayout, QLabel, QTabWidget, QToolButton, QVBoxLayout, QWidget
+
+from partpick.gui.models import LibraryModel, ResultModel
+
+__all__ = ["CurvesView", "CURVE_TABS", "MAX_PARTS"]
+
+MAX_PARTS = 4
+# tab key, title, rows of (partpick.plots plot name, options) — each row one plot per part.
+CURVE_TABS = (
+    ("iv", "I–V", (("iv", {"log_current": False}), ("iv", {"log_current": True}))),
+    ("zener_output", "Output vs supply", (("zener_output", {}),)),
+    ("junction_temperature", "Junction temperature", (("junction_temperature", {}),)),
+    ("power", "Power", (("power", {}),)),
+)
+
+
+def _plots():
+    """`partpick.plots`, imported at the first drawing (it loads the physics core, scipy included,
+    which the window need not wait for before it is shown)."""
+    from partpick import plots
+
+    return plots
+_SECTION_OF = {"zener_output": "zener_output", "junction_temperature": "junction_temperature", "power": "power"}
+
+
+def _install_axes(plot_item) -> None:
+    from partpick.plots.axes import install_axes
+
+    install_axes(plot_item)
+
+
+class _CurvePage(QWidget):
+    """One tab: a grid of PlotWidgets, rows × parts, created once and only hidden when unused.
+
+    (PlotItems are never removed from a scene: removing them hands ownership
+    back to Python, and PySide6 6.12 then crashes at interpreter exit.)
+    """
+
+    def __init__(self, key: str, rows, readout, parent=None) -> None:
+        super().__init__(parent)
+        self.key = key
+        self.rows = rows
+        self._readout = readout
+        self._grid = QGridLayout(self)
+        self._grid.setContentsMargins(0, 0, 0, 0)
+        self._grid.setSpacing(2)
+        self.widgets: list[list[pg.PlotWidget]] = []  # [part][row]
+        self.items: list[list[list]] = []
+        self.readouts: list[list] = []
+        self.shown = 0
+        self.dirty = True
+
+    @property
+    def cells(self) -> list[list[pg.PlotItem]]:
+        """The PlotItems in use, [part][row]."""
+        return [[w.getPlotItem() for w in column] for column in self.widgets[: self.shown]]
+
+    def _ensure_columns(self, count: int) -> None:
+        while len(self.widgets) < count:
+            col = len(self.widgets)
+            column = []
+            for row in range(len(self.rows)):
+                widget = pg.PlotWidget(self)
+                widget.setBackground(self.palette().color(QPalette.ColorRole.Base))
+                _install_axes(widget.getPlotItem())
+                widget.setMinimumSize(200, 150)
+                self._grid.addWidget(widget, row, col)
+                column.append(widget)
+            self.widgets.append(column)
+            self.items.append([[] for _ in self.rows])
+            self.readouts.append([None for _ in self.rows])
+        for col, column in enumerate(self.widgets):
+            for widget in column:
+                widget.setVisible(col < count)
+        self.shown = count
+
+    def draw(self, curve_sets: list[dict]) -> int:
+        """Draw each part's curves into its column; returns the number of plots with something on them."""
+        self._ensure_columns(len(curve_sets))
+        plots = _plots()
+        drawn = 0
+        for col in range(len(self.widgets)):
+            for row, (plot_name, options) in enumerate(self.rows):
+                plot_item = self.widgets[col][row].getPlotItem()
+                # No auto-range while items come and go: pyqtgraph would re-fit the view (and notify
+                # every item) once per item; the draw function re-enables it once at the end.
+                plot_item.vb.disableAutoRange()
+                if col >= len(curve_sets):
+                    plots.clear_items(plot_item, self.items[col][row])  # an unused (hidden) column
+                    continue
+                curves = curve_sets[col]
+                # Same kinds of curves as last time (an edit): the plots layer updates them in place.
+                items = plots.redraw(plot_item, plot_name, curves, self.items[col][row], **options)
+                self.items[col][row] = items
+                section = self._section(curves)
+                if items:
+                    drawn += 1
+                    readout = self.readouts[col][row]
+                    if readout is None:
+                        self.readouts[col][row] = plots.CursorReadout(
+                            plot_item, section["x"], section["y"], callback=self._readout)
+                    else:
+                        readout.set_axes(section["x"], section["y"])
+                else:
+                    plot_item.setTitle(f"{curves.get('part_number', '')}: nothing to draw for this part")
+        self._link_axes()
+        self.dirty = False
+        return drawn
+
+    def _section(self, curves: dict):
+        if self.key == "iv":
+            return curves.get("breakdown" if curves.get("role") == "zener_shunt" else "forward")
+        return curves.get(_SECTION_OF[self.key])
+
+    def _link_axes(self) -> None:
+        """Same scales across parts, so the eye compares curves, not axes."""
+        cells = self.cells
+        for row in range(len(self.rows)):
+            for column in cells[1:]:
+                column[row].setXLink(cells[0][row])
+                column[row].setYLink(cells[0][row])
+
+    def shutdown(self) -> None:
+        if not self.widgets:
+            return
+        plots = _plots()
+        for col in range(len(self.widgets)):
+            for row in range(len(self.rows)):
+                plots.clear_items(self.widgets[col][row].getPlotItem(), self.items[col][row])
+
+
+def _composite_svg(widget: QWidget, path, title: str) -> None:
+    """A page of several plots as SVG (QSvgGenerator; `plots.export_svg` takes one plot widget).
+
+    A plain QWidget needs QWidget.render's full argument list under PySide6.
+    """
+    from pathlib import Path
+
+    from PySide6.QtCore import QBuffer, QIODevice, QPoint, QRect
+    from PySide6.QtGui import QPainter, QRegion
+    from PySide6.QtSvg import QSvgGenerator
+
+    buffer = QBuffer()
+    buffer.open(QIODevice.OpenModeFlag.WriteOnly)
+    generator = QSvgGenerator()
+    generator.setOutputDevice(buffer)
+    generator.setSize(widget.size())
+    generator.setViewBox(QRect(0, 0, widget.width(), widget.height()))
+    generator.setTitle(title)
+    painter = QPainter()
+    if not painter.begin(generator):
+        raise RuntimeError("could not start painting on the SVG generator")
+    try:
+        widget.render(painter, QPoint(), QRegion(), QWidget.RenderFlag.DrawChildren)
+    finally:
+        painter.end()
+    Path(path).write_bytes(bytes(buffer.data()))
+
+
+class CurvesView(QWidget):
+    """Tabs of curves following the result model's selection."""
+
+    readout = Signal(str)  # the cursor read-out text (the window shows it in the status bar)
+
+    def __init__(self, result: ResultModel, library: LibraryModel, parent=None) -> None:
+        super().__init__(parent)
+        self.result = result
+        self.library = library
+        self.setObjectName("curves_view")
+        self.curve_sets: list[dict] = []
+        self.redraws = 0
+        self._text_colour = self.palette().color(QPalette.ColorRole.Text)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(4, 4, 4, 4)
+        top = QHBoxLayout()
+        self.notes = QLabel(self)
+        self.notes.setWordWrap(True)
+        top.addWidget(self.notes, 1)
+        self.legend_button = QToolButton(self)
+        self.legend_button.setText("Legend")
+        self.legend_button.setCheckable(True)
+        self.legend_button.setChecked(True)
+        self.legend_button.setToolTip("Show or hide the legends (they can cover curves on small plots)")
+        self.legend_button.toggled.connect(self._update_legends)
+        top.addWidget(self.legend_button)
+        self.export_button = QToolButton(self)
+        top.addWidget(self.export_button)
+        layout.addLayout(top)
+        self.tabs = QTabWidget(self)
+        self.tabs.setObjectName("curve_tabs")
+        self.pages: dict[str, _CurvePage] = {}
+        for key, title, rows in CURVE_TABS:
+            page = _CurvePage(key, rows, self.readout.emit, self)
+            self.pages[key] = page
+            self.tabs.addTab(page, title)
+        layout.addWidget(self.tabs, 1)
+        self.tabs.currentChanged.connect(self._tab_shown)
+        result.changed.connect(self.refresh)
+        result.selection_changed.connect(self.refresh)
+
+    def current_page(self) -> _CurvePage:
+        return self.tabs.currentWidget()
+
+    # -- model → plots -------------------------------------------------------
+    def refresh(self) -> None:
+        """Recompute the curve data of the selected parts and redraw the visible tab."""
+        from partpick.checks.curves import curves_for
+
+        result = self.result.result
+        sets = []
+        if result is not None:
+            requirement = result["requirement"]
+            for part_number in self.result.selected[:MAX_PARTS]:
+                part = self.library.get_part(part_number)
+                candidate = self.result.candidate(part_number)
+                if part is not None and candidate is not None:
+                    sets.append(curves_for(requirement, part, candidate))
+        self.curve_sets = sets
+        role = result["requirement"]["role"] if result else "series"
+        self.tabs.setTabVisible(self.tabs.indexOf(self.pages["zener_output"]), role == "zener_shunt")
+        notes = [f"{c['part_number']}: {note}" for c in sets for note in c.get("notes", [])]
+        if not sets:
+            notes = ["Select parts in the shortlist to see their curves."] if result else []
+        self.notes.setText("\n".join(notes))
+        self.notes.setVisible(bool(notes))
+        for page in self.pages.values():
+            page.dirty = True
+        self._draw(self.current_page())
+
+    def _draw(self, page: _CurvePage) -> None:
+        page.draw(self.curve_sets)
+        for column in page.cells:
+            for plot_item in column:
+                for name in ("left", "bottom"):
+                    plot_item.getAxis(name).setTextPen(self._text_colour)
+                    plot_item.getAxis(name).setPen(self._text_colour)
+                # Titles a size smaller than the plots layer's: up to four plots share the width.
+                plot_item.setTitle(plot_item.titleLabel.text, size="9pt", color=self._text_colour)
+        self._update_legends()
+        self.redraws += 1
+
+    def _update_legends(self, *_args) -> None:
+        """One legend per tab (every plot of a tab uses the same lines and colours); the plots layer
+        puts it in the corner its curves leave free."""
+        visible = self.legend_button.isChecked()
+        for page in self.pages.values():
+            for col, column in enumerate(page.cells):
+                for row, plot_item in enumerate(column):
+                    legend = plot_item.legend
+                    if legend is None:
+                        continue
+                    legend.setLabelTextSize("8pt")
+                    # On the I–V tab the log plot's upper left (low VF, high IF) is the emptiest.
+                    legend.setVisible(visible and col == 0 and row == len(column) - 1)
+
+    def _tab_shown(self, _index: int) -> None:
+        page = self.current_page()
+        if page is not None and page.dirty:
+            self._draw(page)
+
+    # -- export ---------------------------------------------------------------
+    def export_image(self, path: str) -> None:
+        """The visible tab as PNG or SVG (by the file's extension)."""
+        page = self.current_page()
+        title = self.tabs.tabText(self.tabs.currentIndex())
+        single = page.widgets[0][0] if page.shown == 1 and len(page.rows) == 1 else None
+        plots = _plots()
+        if str(path).lower().endswith(".svg"):
+            if single is not None:
+                plots.export_svg(single, path, title=title)
+            else:
+                _composite_svg(page, path, title)
+        else:
+            plots.export_png(single or page, path)
+
+    def shutdown(self) -> None:
+        for page in self.pages.values():
+            page.shutdown()

@@ -1,0 +1,634 @@
+"""Qt-free models of the window: the requirement being edited, the library view, the latest result.
+
+Views take a model, connect its signals to their ``_update_*`` methods and send
+widget edits to the model's setters; the models never import Qt, so every rule
+here (what a field accepts, when a check may run, which parts the filter shows)
+is tested without a window.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+
+from partpick.errors import InputError
+from partpick.gui.observer import Signal
+from partpick.units import format_quantity, parse_quantity
+
+__all__ = [
+    "ROLES",
+    "OBJECTIVES",
+    "KIND_WORDS",
+    "RESISTOR_SERIES",
+    "ReqField",
+    "REQUIREMENT_FIELDS",
+    "FieldState",
+    "RequirementModel",
+    "LibraryModel",
+    "ResultModel",
+    "describe_corner",
+]
+
+# SPEC §8: the words on screen for the file values.
+ROLES = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
+OBJECTIVES = {
+    "balanced": "Balanced",
+    "drop": "Lowest drop",
+    "dissipation": "Lowest dissipation",
+    "headroom": "Most headroom",
+    "price": "Lowest price",
+}
+RESISTOR_SERIES = ("E12", "E24", "E48", "E96")
+KIND_WORDS = {"rectifier": "Rectifier", "signal": "Signal", "schottky": "Schottky",
+              "fast_recovery": "Fast recovery", "zener": "Zener"}
+DEFAULT_POLICY = "commercial"  # SPEC §4: the window's new requirements start from it
+
+
+@dataclass(frozen=True)
+class ReqField:
+    """One field of the requirement form: a key of the requirement TOML (SPEC §5).
+
+    ``kind`` is ``"float"`` (engineering notation in ``unit``), ``"text"``,
+    ``"choice"`` (one of ``choices``; "" = default) or ``"list"`` (comma-separated
+    words, each one of ``choices`` when those are given).
+    ``group`` places it in the form; ``roles`` says for which roles it applies.
+    ``table`` is ``"zener"`` for the keys of the ``[zener]`` table.
+    """
+
+    key: str
+    label: str
+    kind: str = "float"
+    unit: str = ""
+    required: bool = False
+    group: str = "Circuit"
+    roles: tuple[str, ...] = ("series", "zener_shunt")
+    table: str = ""
+    choices: tuple[str, ...] = ()
+    minimum: float | None = None
+    help: str = ""
+
+
+def _zf(key, label, unit, required=False, help="", minimum=None, kind="float", choices=()):
+    return ReqField(key, label, kind, unit, required, "Zener", ("zener_shunt",), "zener", choices, minimum, help)
+
+
+REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
+    ReqField("name", "Name", "text", required=True, help="A name for this requirement (shown in reports)."),
+    ReqField("role", "Role", "choice", required=True, choices=tuple(ROLES), help="The circuit position."),
+    ReqField("supply_min_V", "Supply min", unit="V", required=True, help="Lowest supply voltage."),
+    ReqField("supply_max_V", "Supply max", unit="V", required=True, help="Highest supply voltage."),
+    ReqField("load_min_A", "Load min", unit="A", required=True, minimum=0.0, help="Lowest load current."),
+    ReqField("load_max_A", "Load max", unit="A", required=True, minimum=0.0, help="Highest load current."),
+    ReqField("ambient_min_C", "Ambient min", unit="°C", required=True, help="Coldest ambient."),
+    ReqField("ambient_max_C", "Ambient max", unit="°C", required=True, help="Hottest ambient."),
+    ReqField("policy", "Derating policy", "choice", group="Margins", help="The team's derating limits."),
+    ReqField("objective", "Objective", "choice", group="Margins", choices=tuple(OBJECTIVES),
+             help="What the ranking optimises."),
+    ReqField("reverse_margin_pct", "Reverse margin", unit="%", group="Margins", minimum=0.0,
+             help="Reverse voltage ≤ VRRM/(1 + margin/100); overrides the policy."),
+    ReqField("tj_margin_K", "Tj margin", unit="K", group="Margins", minimum=0.0,
+             help="Junction temperature margin below Tj max; overrides the policy."),
+    ReqField("current_derating_pct", "Current derating", unit="%", group="Margins", minimum=0.0,
+             help="Forward current ≤ this % of derated IF(AV); overrides the policy."),
+    ReqField("power_derating_pct", "Power derating", unit="%", group="Margins", minimum=0.0,
+             help="Power ≤ this % of the allowed power; overrides the policy."),
+    ReqField("resistor_power_derating_pct", "Resistor derating", unit="%", group="Margins", minimum=0.0,
+             roles=("zener_shunt",), help="Resistor power ≤ this % of its class rating."),
+    ReqField("reverse_V", "Reverse voltage", unit="V", group="Limits", roles=("series",),
+             help="Reverse voltage in the blocking state (default: supply max)."),
+    ReqField("reverse_transient_V", "Reverse transient", unit="V", group="Limits", roles=("series",),
+             help="A reverse transient, used when above the reverse voltage."),
+    ReqField("max_forward_drop_V", "Max forward drop", unit="V", group="Limits", roles=("series",),
+             help="Largest acceptable forward drop."),
+    ReqField("min_output_V", "Min output", unit="V", group="Limits", roles=("series",),
+             help="Lowest acceptable output voltage (supply − drop)."),
+    ReqField("max_leakage_A", "Max leakage", unit="A", group="Limits", roles=("series",), minimum=0.0,
+             help="Largest acceptable reverse leakage at the hottest ambient."),
+    ReqField("rth_ja_K_per_W", "Board RthJA", unit="K/W", group="Limits", minimum=0.0,
+             help="The design's own junction-to-ambient thermal resistance; replaces every part's."),
+    ReqField("inrush_capacitance_F", "Inrush capacitance", unit="F", group="Limits", roles=("series",),
+             minimum=0.0, help="Capacitance charged at switch-on (with the source resistance: surge check)."),
+    ReqField("inrush_source_ohm", "Inrush source R", unit="Ω", group="Limits", roles=("series",),
+             minimum=0.0, help="Source resistance during inrush."),
+    ReqField("kinds", "Kinds", "list", group="Filters", help="Only these kinds, comma-separated (empty: all).",
+             choices=("rectifier", "signal", "schottky", "fast_recovery", "zener")),
+    ReqField("packages", "Packages", "list", group="Filters", help="Only these packages, comma-separated."),
+    ReqField("lifecycle", "Lifecycle", "list", group="Filters", choices=("active", "nrnd", "obsolete"),
+             help="Only these lifecycle states, comma-separated."),
+    ReqField("max_price", "Max price", group="Filters", minimum=0.0, help="Highest unit price."),
+    _zf("target_V", "Target output", "V", True, "The regulated output voltage wanted."),
+    _zf("max_regulation_error_pct", "Max regulation error", "%", True,
+        "Largest |Vout − target| as % of target over every corner.", 0.0),
+    _zf("min_zener_current_A", "Min Zener current", "A", help="Iz min (default: the part's Izk).", minimum=0.0),
+    _zf("resistor_series", "Resistor series", "", help="E-series for the resistor (default E24).",
+        kind="choice", choices=RESISTOR_SERIES),
+    _zf("resistor_tolerance_pct", "Resistor tolerance", "%", minimum=0.0,
+        help="± tolerance (default 5 % E12/E24, 1 % E48/E96)."),
+    _zf("resistor_ohm", "Fixed resistor", "Ω", minimum=0.0,
+        help="Review a finished design with this resistor instead of sizing one."),
+)
+FIELDS_BY_KEY = {f.key: f for f in REQUIREMENT_FIELDS}
+
+
+@dataclass
+class FieldState:
+    """What a field holds: the text as typed, the parsed value, the error if any."""
+
+    text: str = ""
+    value: object = None
+    error: str = ""
+
+
+def _format_value(spec: ReqField, value) -> str:
+    if value is None:
+        return ""
+    if spec.kind == "float":
+        return re.sub(r"(?<=[\d ])u(?=[A-Za-zΩ]|$)", "µ", format_quantity(float(value), spec.unit))
+    if spec.kind == "list":
+        return ", ".join(str(v) for v in value)
+    return str(value)
+
+
+def _parse_field(spec: ReqField, text: str):
+    """The value of a field's text, or raise InputError naming the field (None = not given)."""
+    raw = text.strip()
+    if spec.kind == "text":
+        if not raw and spec.required:
+            raise InputError(f"{spec.label}: required")
+        return raw or None
+    if not raw:
+        if spec.required:
+            raise InputError(f"{spec.label}: required")
+        return None
+    if spec.kind == "choice":
+        if spec.choices and raw not in spec.choices:
+            raise InputError(f"{spec.label}: {raw!r} is not one of {', '.join(spec.choices)}")
+        return raw
+    if spec.kind == "list":
+        words = [w.strip() for w in raw.split(",")]
+        if any(not w for w in words):
+            raise InputError(f"{spec.label}: {raw!r} has an empty item (separate words with commas)")
+        if spec.choices:
+            bad = [w for w in words if w not in spec.choices]
+            if bad:
+                raise InputError(f"{spec.label}: {', '.join(bad)} not one of {', '.join(spec.choices)}")
+        return words
+    value = parse_quantity(raw, spec.unit, name=spec.label)
+    if spec.minimum is not None and value < spec.minimum:
+        raise InputError(f"{spec.label}: {raw} is below {spec.minimum:g} {spec.unit}".rstrip())
+    return value
+
+
+class RequirementModel:
+    """The requirement being edited: every field as text, parsed value and error.
+
+    A bad entry keeps its text and its error and never reaches the checker:
+    `requirement_dict` refuses while any applicable field has an error.
+
+    Signals
+    -------
+    field_changed(key)
+        Text, value or error of one field changed (views re-draw that field).
+    values_changed()
+        The set of valid values changed (the window schedules a recheck).
+    role_changed(role)
+        The role changed (the form shows or hides the Zener table).
+    loaded()
+        Every field was replaced (opened a requirement file).
+    """
+
+    def __init__(self) -> None:
+        self.fields: dict[str, FieldState] = {f.key: FieldState() for f in REQUIREMENT_FIELDS}
+        self.policy_names: tuple[str, ...] = (DEFAULT_POLICY,)
+        self.source = "window"
+        self.path = None  # the TOML file this requirement came from / was saved to
+        self.form_error = ""  # a cross-field error reported by the checker's reader
+        self.form_error_key = ""  # the field that error names, if it names one
+        self.field_changed = Signal()
+        self.values_changed = Signal()
+        self.role_changed = Signal()
+        self.loaded = Signal()
+        self.errors_changed = Signal()
+        self.reset()
+
+    # -- state ------------------------------------------------------------
+    @property
+    def role(self) -> str:
+        return self.fields["role"].value or "series"
+
+    def spec(self, key: str) -> ReqField:
+        return FIELDS_BY_KEY[key]
+
+    def applies(self, key: str) -> bool:
+        """Whether a field belongs to the current role's requirement."""
+        return self.role in FIELDS_BY_KEY[key].roles
+
+    def text(self, key: str) -> str:
+        return self.fields[key].text
+
+    def value(self, key: str):
+        return self.fields[key].value
+
+    def error(self, key: str) -> str:
+        return self.fields[key].error
+
+    def errors(self) -> dict[str, str]:
+        """The errors of the fields that apply to the current role."""
+        return {k: s.error for k, s in self.fields.items() if s.error and self.applies(k)}
+
+    def set_policy_names(self, names) -> None:
+        self.policy_names = tuple(names)
+        self._revalidate("policy")
+
+    # -- setters (from the widgets) ----------------------------------------
+    def set_text(self, key: str, text: str) -> None:
+        """Take a field's text as typed; parse it; emit what changed."""
+        state = self.fields[key]
+        spec = FIELDS_BY_KEY[key]
+        old_value, old_error = state.value, state.error
+        state.text = text
+        try:
+            if key == "policy" and text.strip() and text.strip() not in self.policy_names:
+                raise InputError(f"{spec.label}: {text.strip()!r} is not one of {', '.join(self.policy_names)}")
+            state.value, state.error = _parse_field(spec, text), ""
+        except InputError as exc:
+            state.error = str(exc)
+        self.field_changed.emit(key)
+        if state.error != old_error:
+            self.errors_changed.emit()
+        if not state.error and (state.value != old_value or old_error):
+            self._set_form_error("")
+            if key == "role":
+                self.role_changed.emit(self.role)
+            self.values_changed.emit()
+
+    def set_value(self, key: str, value) -> None:
+        """Set a field from a value in base units (formats it the way the field shows it)."""
+        self.set_text(key, _format_value(FIELDS_BY_KEY[key], value))
+
+    def _revalidate(self, key: str) -> None:
+        self.set_text(key, self.fields[key].text)
+
+    # -- whole requirement ---------------------------------------------------
+    def reset(self) -> None:
+        """A new requirement: a 12 V series diode at 1 A, policy `commercial`."""
+        self.load_dict(
+            {
+                "name": "New requirement",
+                "role": "series",
+                "policy": DEFAULT_POLICY,
+                "objective": "balanced",
+                "supply_min_V": 11.0,
+                "supply_max_V": 13.0,
+                "load_min_A": 0.1,
+                "load_max_A": 1.0,
+                "ambient_min_C": -20.0,
+                "ambient_max_C": 60.0,
+                "zener": {"target_V": 5.1, "max_regulation_error_pct": 5.0},
+            }
+        )
+        self.path = None
+
+    def load_dict(self, data: dict, *, source: str = "window") -> None:
+        """Replace every field from a requirement dict (the TOML's keys, `[zener]` as a sub-dict)."""
+        zener = data.get("zener") or {}
+        known = set(FIELDS_BY_KEY) | {"zener"}
+        unknown = sorted(set(data) - known)
+        if unknown:
+            raise InputError(f"{source}: unknown requirement key(s) {', '.join(unknown)}")
+        for spec in REQUIREMENT_FIELDS:
+            value = zener.get(spec.key) if spec.table == "zener" else data.get(spec.key)
+            state = self.fields[spec.key]
+            state.text = _format_value(spec, value)
+            try:
+                state.value, state.error = _parse_field(spec, state.text), ""
+            except InputError as exc:
+                state.value, state.error = None, str(exc)
+        self.source = source
+        self._set_form_error("")
+        self.loaded.emit()
+        self.errors_changed.emit()
+        self.role_changed.emit(self.role)
+        self.values_changed.emit()
+
+    def requirement_dict(self) -> dict:
+        """The requirement as the TOML's dict (SPEC §5), only the fields that apply.
+
+        Raises
+        ------
+        InputError
+            Some field that applies has an error; the message lists them all.
+        """
+        errors = self.errors()
+        if errors:
+            raise InputError("; ".join(errors.values()))
+        data: dict = {}
+        zener: dict = {}
+        for spec in REQUIREMENT_FIELDS:
+            if not self.applies(spec.key):
+                continue
+            value = self.fields[spec.key].value
+            if value is None:
+                continue
+            (zener if spec.table == "zener" else data)[spec.key] = value
+        if self.role == "zener_shunt":
+            data["zener"] = zener
+        return data
+
+    def build_requirement(self):
+        """The checker's `Requirement` for the current fields.
+
+        Raises InputError for a field error or for what the checker's reader
+        refuses across fields (e.g. supply min above supply max); the latter is
+        kept in `form_error` for the window to show.
+        """
+        from partpick.checks.requirement import requirement_from_dict
+
+        data = self.requirement_dict()
+        try:
+            requirement = requirement_from_dict(data, self.source)
+        except InputError as exc:
+            self._set_form_error(str(exc))
+            raise
+        self._set_form_error("")
+        return requirement
+
+    def _set_form_error(self, text: str) -> None:
+        if text != self.form_error:
+            old_key = self.form_error_key
+            self.form_error = text
+            self.form_error_key = _key_named_in(text)
+            self.errors_changed.emit()
+            for key in {old_key, self.form_error_key} - {""}:
+                self.field_changed.emit(key)
+
+    def field_error(self, key: str) -> str:
+        """The error shown at a field: its own, or the checker's reader's when that names this key."""
+        own = self.fields[key].error
+        if own:
+            return own
+        return self.form_error if self.form_error and key == self.form_error_key else ""
+
+
+class LibraryModel:
+    """The open library as the window sees it: every part, and the filter of the parts table.
+
+    The store does the work (validation, transactions); this model keeps the
+    list the views show in step with it.
+
+    Signals
+    -------
+    library_changed()
+        Another library was opened.
+    parts_changed()
+        Parts were added, replaced or removed.
+    filter_changed()
+        The parts table's filter changed.
+    """
+
+    def __init__(self, library=None) -> None:
+        self.library = None
+        self.parts: list[dict] = []
+        self._by_number: dict[str, dict] = {}
+        self._content_hash: str | None = None
+        self.filter_kind = ""
+        self.filter_package = ""
+        self.filter_text = ""
+        self.filter_min_vrrm: float | None = None  # VRRM ≥ this [V]
+        self.filter_min_if: float | None = None  # IF(AV) ≥ this [A]
+        self.library_changed = Signal()
+        self.parts_changed = Signal()
+        self.filter_changed = Signal()
+        if library is not None:
+            self.set_library(library)
+
+    # -- library ------------------------------------------------------------
+    @property
+    def location(self) -> str:
+        return self.library.location if self.library is not None else ""
+
+    def set_library(self, library) -> None:
+        if self.library is not None and self.library is not library:
+            self.library.close()
+        self.library = library
+        self._load()
+        self.library_changed.emit()
+        self.parts_changed.emit()
+
+    def close(self) -> None:
+        if self.library is not None:
+            self.library.close()
+            self.library = None
+
+    def reload(self) -> None:
+        self._load()
+        self.parts_changed.emit()
+
+    def _load(self) -> None:
+        self.parts = self.library.list_parts() if self.library is not None else []
+        self._by_number = {p["part_number"]: p for p in self.parts}
+        self._content_hash = None
+
+    def library_info(self) -> dict:
+        """``{"location", "content_hash"}`` for run_check (SPEC §5 `library`).
+
+        The hash is the store's, taken once per change of the library (hashing
+        10,000 parts on every keystroke-settled recheck would cost more than the check).
+        """
+        if self.library is None:
+            return {"location": "", "content_hash": ""}
+        if self._content_hash is None:
+            self._content_hash = self.library.content_hash()
+        return {"location": self.library.location, "content_hash": self._content_hash}
+
+    def policies(self) -> dict:
+        """The library's own derating policies as the CLI loads them (the checker adds the built-ins)."""
+        from partpick.cli.check import load_policies
+
+        return load_policies(self.library) if self.library is not None else {}
+
+    def policy_names(self) -> list[str]:
+        """Every policy a requirement may name: the built-ins and the library's own."""
+        from partpick.checks.policy import BUILTIN_POLICIES
+
+        return sorted(set(BUILTIN_POLICIES) | set(self.policies()))
+
+    # -- parts --------------------------------------------------------------
+    def get_part(self, part_number: str) -> dict | None:
+        return self._by_number.get(part_number)
+
+    def part_numbers(self) -> list[str]:
+        return [p["part_number"] for p in self.parts]
+
+    def save_part(self, part: dict, *, replace: str | None = None) -> None:
+        """Store a part in one transaction (the store validates; InputError on a bad part)."""
+        record = {k: v for k, v in part.items() if k != "fit_residual_mV"}
+        self.library.save_part(record, replace=replace)
+        self.reload()
+
+    def delete_part(self, part_number: str) -> None:
+        self.library.delete_part(part_number)
+        self.reload()
+
+    def free_part_number(self, base: str) -> str:
+        """A part number not yet in the library, for a duplicate: ``base-copy``, ``base-copy2``..."""
+        candidate = f"{base}-copy"
+        count = 2
+        while candidate in self._by_number:
+            candidate = f"{base}-copy{count}"
+            count += 1
+        return candidate
+
+    # -- filter -------------------------------------------------------------
+    def set_filter(self, *, kind: str | None = None, package: str | None = None, text: str | None = None,
+                   min_vrrm: float | None | str = "", min_if: float | None | str = "") -> None:
+        """Change the parts table's filter ("" leaves a rating floor as it is, None clears it)."""
+        changed = False
+        for name, value in (("filter_kind", kind), ("filter_package", package), ("filter_text", text)):
+            if value is not None and getattr(self, name) != value:
+                setattr(self, name, value)
+                changed = True
+        for name, value in (("filter_min_vrrm", min_vrrm), ("filter_min_if", min_if)):
+            if value != "" and getattr(self, name) != value:
+                setattr(self, name, value)
+                changed = True
+        if changed:
+            self.filter_changed.emit()
+
+    def packages(self) -> list[str]:
+        return sorted({p.get("package") or "" for p in self.parts} - {""})
+
+    def matches(self, part: dict) -> bool:
+        if self.filter_kind and part.get("kind") != self.filter_kind:
+            return False
+        if self.filter_package and (part.get("package") or "") != self.filter_package:
+            return False
+        for floor, key in ((self.filter_min_vrrm, "vrrm_V"), (self.filter_min_if, "if_avg_A")):
+            if floor is not None and (part.get(key) is None or part[key] < floor):
+                return False
+        if self.filter_text:
+            needle = self.filter_text.casefold()
+            haystack = " ".join(
+                str(part.get(k) or "") for k in ("part_number", "manufacturer", "package", "kind", "notes")
+            ).casefold()
+            return all(word in haystack for word in needle.split())
+        return True
+
+    def visible_parts(self) -> list[dict]:
+        return [p for p in self.parts if self.matches(p)]
+
+
+def _key_named_in(message: str) -> str:
+    """The requirement key a checker message names (longest match), or ""."""
+    named = [f.key for f in REQUIREMENT_FIELDS if f.key in message]
+    return max(named, key=len) if named else ""
+
+
+def describe_corner(corner: dict | None) -> str:
+    """A corner in words (SPEC §8): ``"11.0 V · 1.00 A · −20 °C · steady"``."""
+    if not corner:
+        return ""
+    bits = []
+    if corner.get("supply_V") is not None:
+        bits.append(format_quantity(corner["supply_V"], "V", digits=3))
+    if corner.get("load_A") is not None:
+        bits.append(format_quantity(corner["load_A"], "A", digits=3))
+    if corner.get("ambient_C") is not None:
+        bits.append(f"{corner['ambient_C']:g} °C".replace("-", "−"))
+    state = corner.get("state")
+    if state:
+        bits.append({"cold_start": "cold start", "steady": "steady", "reverse": "reverse"}.get(state, state))
+    for key, label in (("vz_end", "Vz"), ("resistor_end", "R")):
+        if corner.get(key):
+            bits.append(f"{label} {corner[key]}")
+    return " · ".join(bits)
+
+
+class ResultModel:
+    """The latest check result (run_check's dict, SPEC §5) and the shortlist selection.
+
+    Signals
+    -------
+    changed()
+        A new result arrived (or the result was cleared).
+    state_changed()
+        `stale` / `message` changed (the requirement has errors, a check is running).
+    selection_changed()
+        The selected shortlist parts changed (the curves follow).
+    """
+
+    def __init__(self) -> None:
+        self.result: dict | None = None
+        self.elapsed_ms: float = math.nan
+        self.part_count = 0
+        self.stale = False
+        self.message = ""
+        self.selected: list[str] = []
+        self.changed = Signal()
+        self.state_changed = Signal()
+        self.selection_changed = Signal()
+
+    @property
+    def candidates(self) -> list[dict]:
+        return self.result["candidates"] if self.result else []
+
+    def candidate(self, part_number: str) -> dict | None:
+        for candidate in self.candidates:
+            if candidate["part_number"] == part_number:
+                return candidate
+        return None
+
+    def pass_count(self) -> int:
+        """Passing candidates: the result's summary (which counts beyond a ``top`` limit), else the list."""
+        summary = (self.result or {}).get("summary")
+        if summary:
+            return int(summary["passing"])
+        return sum(1 for c in self.candidates if c["passed"])
+
+    def candidate_count(self) -> int:
+        summary = (self.result or {}).get("summary")
+        return int(summary["candidates"]) if summary else len(self.candidates)
+
+    def set_result(self, result: dict, elapsed_ms: float, part_count: int) -> None:
+        self.result = result
+        self.elapsed_ms = elapsed_ms
+        self.part_count = part_count
+        numbers = {c["part_number"] for c in self.candidates}
+        kept = [p for p in self.selected if p in numbers]
+        # The selection follows the parts that are still candidates, else the top part;
+        # views re-read it on `changed` (one redraw per result, not two).
+        self.selected = kept or ([self.candidates[0]["part_number"]] if self.candidates else [])
+        self.stale = False
+        self.message = ""
+        self.changed.emit()
+        self.state_changed.emit()
+
+    def clear(self) -> None:
+        self.result = None
+        self.selected = []
+        self.changed.emit()
+        self.selection_changed.emit()
+
+    def set_stale(self, message: str) -> None:
+        """The shown result no longer matches the form (bad field, or a failed check): say why."""
+        self.stale = True
+        self.message = message
+        self.state_changed.emit()
+
+    def set_selected(self, part_numbers) -> None:
+        part_numbers = list(part_numbers)
+        if part_numbers != self.selected:
+            self.selected = part_numbers
+            self.selection_changed.emit()
+
+    def status_text(self) -> str:
+        """The status-bar line: ``"N of M parts pass · t ms"``."""
+        if self.result is None:
+            return self.message or "No result yet"
+        text = f"{self.pass_count()} of {self.candidate_count()} parts pass · {self.elapsed_ms:.0f} ms"
+        if len(self.candidates) < self.candidate_count():
+            text += f" · first {len(self.candidates)} listed"
+        if self.stale:
+            text = f"{self.message} — showing the last good result ({text})"
+        return text

@@ -1,0 +1,102 @@
+"""Take the window's screenshots (offscreen): `python resources/screenshots/make_screenshots.py [OUT_DIR]`.
+
+Builds a temporary library from the example CSV, opens the real window on it,
+loads the example requirements and grabs each view. Nothing is written to the
+user's library or settings.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+import tempfile
+from pathlib import Path
+
+os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+
+ROOT = Path(__file__).resolve().parents[2]
+
+
+def dark_palette():
+    """A dark system palette, to see that the window reads in both."""
+    from PySide6.QtGui import QColor, QPalette
+
+    palette = QPalette()
+    for role, colour in ((QPalette.ColorRole.Window, (45, 45, 48)), (QPalette.ColorRole.WindowText, (230, 230, 230)),
+                         (QPalette.ColorRole.Base, (30, 30, 32)), (QPalette.ColorRole.AlternateBase, (50, 50, 54)),
+                         (QPalette.ColorRole.Text, (230, 230, 230)), (QPalette.ColorRole.Button, (55, 55, 58)),
+                         (QPalette.ColorRole.ButtonText, (230, 230, 230)), (QPalette.ColorRole.Highlight, (40, 110, 200)),
+                         (QPalette.ColorRole.HighlightedText, (255, 255, 255)),
+                         (QPalette.ColorRole.PlaceholderText, (150, 150, 150))):
+        palette.setColor(role, QColor(*colour))
+    return palette
+
+
+def main(out: Path, *, dark: bool = False) -> None:
+    from PySide6.QtCore import QSettings
+    from PySide6.QtWidgets import QApplication
+
+    app = QApplication.instance() or QApplication([])
+    if dark:
+        app.setStyle("Fusion")
+        app.setPalette(dark_palette())
+    from partpick.cli.app import dispose_window
+    from partpick.gui.commands import Workbench, load_requirement_file
+    from partpick.gui.compare_view import CompareDialog
+    from partpick.gui.main_window import MainWindow
+    from partpick.gui.part_editor import PartEditor
+    from partpick.library.store import open_library
+
+    out.mkdir(parents=True, exist_ok=True)
+    work = Path(tempfile.mkdtemp(prefix="partpick-shots-"))
+    library = open_library(work / "library.sqlite", create=True)
+    library.import_csv(ROOT / "resources" / "example_library" / "parts.csv")
+    bench = Workbench(library)
+    window = MainWindow(bench, settings=QSettings(str(work / "settings.ini"), QSettings.Format.IniFormat))
+    window.resize(1600, 960)
+    window.show()
+
+    def settle():
+        for _ in range(10):
+            app.processEvents()
+
+    load_requirement_file(bench, ROOT / "resources" / "requirements" / "reverse_polarity_24V.toml")
+    window.rechecker.run_now()
+    window.shortlist.select_rows([0, 1])
+    settle()
+    window.grab().save(str(out / "series_shortlist_curves.png"))
+
+    window.curves.tabs.setCurrentWidget(window.curves.pages["junction_temperature"])
+    settle()
+    window.grab().save(str(out / "series_junction_temperature.png"))
+
+    load_requirement_file(bench, ROOT / "resources" / "requirements" / "zener_5V1_reference.toml")
+    window.rechecker.run_now()
+    window.shortlist.select_rows([0])
+    window.curves.tabs.setCurrentWidget(window.curves.pages["zener_output"])
+    settle()
+    window.grab().save(str(out / "zener_output_vs_supply.png"))
+
+    window.shortlist.select_rows([0, 1, 2])
+    compare = CompareDialog(bench, bench.result.selected, window)
+    compare.show()
+    settle()
+    compare.grab().save(str(out / "compare.png"))
+    compare.close()
+
+    part = next(p for p in bench.library.parts if p.get("vf_points"))
+    editor = PartEditor(part, title=f"Edit {part['part_number']}", existing=bench.library.part_numbers(),
+                        parent=window)
+    editor.show()
+    settle()
+    editor.grab().save(str(out / "part_editor.png"))
+    editor.close()
+
+    dispose_window(window)
+    bench.close()
+    print(f"screenshots in {out}")
+
+
+if __name__ == "__main__":
+    arguments = [a for a in sys.argv[1:] if a != "--dark"]
+    main(Path(arguments[0]) if arguments else Path(__file__).resolve().parent, dark="--dark" in sys.argv)

@@ -1,0 +1,170 @@
+"""Benchmark of the desktop app (SPEC §9): not collected by pytest; run it as a script.
+
+    .venv/bin/python tests/bench/bench_gui.py [--parts 10000] [--repeat 15]
+
+Measures, offscreen, on the real window:
+- window shown after launch: a fresh ``partpick --library L`` process, from spawning it to the
+  window being shown (target < 2.5 s);
+- settled edit → shortlist and curves redrawn: a value is typed into the requirement form key by
+  key; from the moment the edit has settled (the debounce timer fires) until the checker has run
+  and the shortlist table and the curve plots have been repainted (target < 100 ms on the example
+  library, < 300 ms on a 10,000-part library, where the check runs in a worker thread);
+- the checker's own share of that time (run_check, as the status bar reports it).
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+
+ROOT = Path(__file__).resolve().parents[2]
+sys.path.insert(0, str(ROOT))
+EXAMPLE_CSV = ROOT / "resources" / "example_library" / "parts.csv"
+
+
+def build_library(path: Path, count: int | None) -> None:
+    """The example library, or ``count`` parts made by repeating its (invented) parts under new numbers."""
+    from partpick.library.store import open_library
+
+    library = open_library(path, create=True)
+    try:
+        library.import_csv(EXAMPLE_CSV)
+        if count:
+            exported = path.with_suffix(".example.csv")
+            library.export_csv(exported)  # carries the fitted models: no refits on the big import
+            with open(exported, newline="", encoding="utf-8") as handle:
+                rows = list(csv.DictReader(handle))
+            big = path.with_suffix(".big.csv")
+            with open(big, "w", newline="", encoding="utf-8") as handle:
+                writer = csv.DictWriter(handle, fieldnames=list(rows[0]))
+                writer.writeheader()
+                for i in range(count - len(rows)):
+                    row = dict(rows[i % len(rows)])
+                    row["part_number"] = f"{row['part_number']}-R{i:05d}"
+                    writer.writerow(row)
+            library.import_csv(big)
+    finally:
+        library.close()
+
+
+def launch_time(library: Path) -> float:
+    """Seconds from spawning ``partpick --library L`` to its window being shown."""
+    env = dict(os.environ, PARTPICK_STARTUP_TIMING="1", QT_QPA_PLATFORM="offscreen",
+               XDG_CONFIG_HOME=tempfile.mkdtemp(prefix="partpick-bench-config-"))
+    start = time.time()
+    done = subprocess.run([sys.executable, "-m", "partpick", "--library", str(library)], env=env,
+                          capture_output=True, text=True, timeout=120)
+    for line in done.stderr.splitlines():
+        if line.startswith("partpick: window shown at "):
+            return float(line.rsplit(" ", 1)[1]) - start
+    raise RuntimeError(f"no start-up timing from the app (exit {done.returncode}): {done.stderr[-2000:]}")
+
+
+def edit_to_redraw(library_path: Path, repeat: int, selected: int, role_toml: str) -> tuple[list, list]:
+    """Milliseconds from a settled edit to shortlist and curves repainted, and the checker's share."""
+    from PySide6.QtCore import QSettings
+    from PySide6.QtTest import QTest
+    from PySide6.QtWidgets import QApplication
+
+    from partpick.cli.app import dispose_window
+    from partpick.gui.commands import Workbench, load_requirement_file
+    from partpick.gui.main_window import MainWindow
+    from partpick.library.store import open_library
+
+    app = QApplication.instance() or QApplication([])
+    bench = Workbench(open_library(library_path))
+    settings = QSettings(str(Path(tempfile.mkdtemp()) / "bench.ini"), QSettings.Format.IniFormat)
+    window = MainWindow(bench, settings=settings)
+    window.resize(1600, 960)
+    window.show()
+    load_requirement_file(bench, ROOT / "resources" / "requirements" / role_toml)
+    _wait_for_result(app, window)
+    window.shortlist.select_rows(range(selected))
+    app.processEvents()
+    field = window.requirement_view.editor("supply_max_V").edit
+    base = bench.requirement.value("supply_max_V")
+    totals, checker = [], []
+    for i in range(repeat):
+        field.setFocus()
+        field.selectAll()
+        QTest.keyClicks(field, f"{base + 0.1 * (i % 2 + 1):.1f} V")  # the user types; nothing runs yet
+        window.rechecker._timer.stop()  # the edit has settled: what the debounce timer's timeout does, now
+        start = time.perf_counter()
+        window.rechecker.run_now()  # inline for a small library; in the pool for a big one
+        if window.rechecker.busy:
+            _wait_for_result(app, window)
+        window.shortlist.table.viewport().repaint()  # paint now, synchronously: "redrawn" is measured
+        page = window.curves.current_page()
+        for column in page.widgets[: page.shown]:
+            for plot in column:
+                plot.viewport().repaint()
+        totals.append((time.perf_counter() - start) * 1e3)
+        checker.append(bench.result.elapsed_ms)
+        app.processEvents()  # untimed: whatever else the event loop had
+    dispose_window(window)
+    bench.close()
+    return totals, checker
+
+
+def _wait_for_result(app, window, timeout_s: float = 30.0) -> None:
+    """Run the event loop until the recheck has landed (as the app does: the loop sleeps in Qt, so a
+    worker thread has the interpreter to itself meanwhile)."""
+    from PySide6.QtCore import QEventLoop, QTimer
+
+    if window.rechecker.busy:
+        loop = QEventLoop()
+        window.rechecker.checked.connect(loop.quit)
+        QTimer.singleShot(int(timeout_s * 1000), loop.quit)
+        while window.rechecker.busy:
+            loop.exec()
+        window.rechecker.checked.disconnect(loop.quit)
+    app.processEvents()
+
+
+def _summary(name: str, values: list, target: float | None = None) -> str:
+    median = statistics.median(values)
+    text = f"{name}: median {median:.1f} ms, best {min(values):.1f} ms, worst {max(values):.1f} ms (n={len(values)})"
+    if target is not None:
+        text += f" — target < {target:.0f} ms: {'met' if median < target else 'NOT met'}"
+    return text
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--parts", type=int, default=10_000)
+    parser.add_argument("--repeat", type=int, default=15)
+    args = parser.parse_args(argv)
+    work = Path(tempfile.mkdtemp(prefix="partpick-bench-gui-"))
+    example, big = work / "example.sqlite", work / "big.sqlite"
+    build_library(example, None)
+    start = time.perf_counter()
+    build_library(big, args.parts)
+    print(f"built a {args.parts}-part library in {time.perf_counter() - start:.1f} s")
+
+    launches = [launch_time(example) for _ in range(3)]
+    print(f"window shown after launch (example library): median {statistics.median(launches):.2f} s, "
+          f"best {min(launches):.2f} s (n=3) — target < 2.5 s: "
+          f"{'met' if statistics.median(launches) < 2.5 else 'NOT met'}")
+    launches = [launch_time(big) for _ in range(2)]
+    print(f"window shown after launch ({args.parts} parts): median {statistics.median(launches):.2f} s (n=2)")
+
+    for label, path, target in (("example library", example, 100.0), (f"{args.parts} parts", big, 300.0)):
+        for toml, role in (("reverse_polarity_24V.toml", "series"), ("zener_5V1_reference.toml", "zener")):
+            for selected in (1, 4):
+                totals, checker = edit_to_redraw(path, args.repeat, selected, toml)
+                print(_summary(f"edit → redrawn, {label}, {role}, {selected} part(s) plotted", totals, target))
+                print(_summary("    of which run_check", checker))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,54 @@
+"""`partpick` with no subcommand opens the window (partpick.cli.app.run)."""
+
+from __future__ import annotations
+
+import argparse
+
+from PySide6.QtCore import QTimer
+from PySide6.QtWidgets import QApplication
+
+from partpick.cli import app as app_module
+
+
+def test_no_display_gives_a_clear_message_and_exit_1(monkeypatch, capsys):
+    for name in ("QT_QPA_PLATFORM", "DISPLAY", "WAYLAND_DISPLAY"):
+        monkeypatch.delenv(name, raising=False)
+    monkeypatch.setattr(app_module.sys, "platform", "linux")
+    assert app_module.run(argparse.Namespace(library=None)) == 1
+    err = capsys.readouterr().err
+    assert "cannot start the desktop app" in err and "QT_QPA_PLATFORM=offscreen" in err
+
+
+def _close_when(predicate, seen):
+    """Close the app's windows once ``predicate(window)`` holds (polled from the event loop)."""
+    timer = QTimer()
+
+    def poll():
+        for widget in QApplication.topLevelWidgets():
+            if widget.objectName() == "main_window" and widget.isVisible() and predicate(widget):
+                seen.append(widget.bench.result.status_text())
+                widget.close()
+                timer.stop()
+
+    timer.timeout.connect(poll)
+    timer.start(50)
+    return timer
+
+
+def test_run_opens_the_window_on_the_library(qapp, library_path, settings, monkeypatch):
+    monkeypatch.setattr("partpick.gui.main_window.default_settings", lambda: settings)
+    seen = []
+    timer = _close_when(lambda w: w.bench.result.result is not None, seen)
+    code = app_module.run(argparse.Namespace(library=str(library_path)))
+    timer.stop()
+    assert code == 0
+    assert seen and " parts pass · " in seen[0]
+
+
+def test_run_on_a_file_that_is_not_a_library_exits_1(qapp, tmp_path, settings, monkeypatch, capsys):
+    monkeypatch.setattr("partpick.gui.main_window.default_settings", lambda: settings)
+    bogus = tmp_path / "notes.sqlite"
+    bogus.write_text("this is not a database", encoding="utf-8")
+    code = app_module.run(argparse.Namespace(library=str(bogus)))
+    assert code == 1
+    assert str(bogus.name) in capsys.readouterr().err
