@@ -234,8 +234,7 @@ class CurvesView(QWidget):
         notes = [f"{c['part_number']}: {note}" for c in sets for note in c.get("notes", [])]
         if not sets:
             notes = ["Select parts in the shortlist to see their curves."] if result else []
-        self.notes.setText("\n".join(notes))
-        self.notes.setVisible(bool(notes))
+        self.notes.setText("\n".join(notes))  # kept visible when empty: it holds the buttons to the right
         for page in self.pages.values():
             page.dirty = True
         self._draw(self.current_page())
