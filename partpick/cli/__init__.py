@@ -23,6 +23,13 @@ EXIT_PASS, EXIT_ERROR, EXIT_BAD_INPUT, EXIT_FAIL = 0, 1, 2, 3
 COMMAND_MODULES = ("check", "fit", "library", "policy")
 
 
+def add_library_option(parser: argparse.ArgumentParser) -> None:
+    """The ``--library PATH|URL`` option every library-touching subcommand takes after its name."""
+    # SUPPRESS: an absent option must not overwrite `partpick --library X <command> ...`.
+    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
+                        help="the library (a file or an SQLAlchemy URL); default: your own library")
+
+
 class _Parser(argparse.ArgumentParser):
     """argparse that reports bad usage as exit 2 with one line, like every other bad input."""
 

@@ -13,6 +13,7 @@ import json
 import sys
 from pathlib import Path
 
+from partpick.cli import add_library_option
 from partpick.errors import InputError
 
 EXIT_PASS, EXIT_FAIL = 0, 3
@@ -36,8 +37,7 @@ def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "check", help="check a library's parts against a requirement, rank them, write the shortlist or a report")
     parser.add_argument("requirement", metavar="REQ.toml", help="the requirement file (TOML)")
-    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
-                        help="the library (a file or an SQLAlchemy URL); default: your own library")
+    add_library_option(parser)
     parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default: table)")
     parser.add_argument("--output", metavar="F", help="file to write (default: standard output)")
     parser.add_argument("--top", type=_positive_int("--top"), metavar="N", help="list only the first N candidates")

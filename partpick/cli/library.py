@@ -6,10 +6,10 @@ user's own library is used (created from the bundled example on first run).
 
 from __future__ import annotations
 
-import argparse
 import json
 import sys
 
+from partpick.cli import add_library_option
 from partpick.errors import InputError
 
 # Columns of `library list` (the table form); the JSON form has every CSV key.
@@ -26,12 +26,6 @@ _TABLE_COLUMNS = (
 )
 
 
-def _add_library_option(parser: argparse.ArgumentParser) -> None:
-    # SUPPRESS: an absent option must not overwrite `partpick --library X library ...`.
-    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
-                        help="the library (a file or an SQLAlchemy URL); default: your own library")
-
-
 def register(subparsers) -> None:
     parser = subparsers.add_parser("library", help="create, import into, export and list a parts library")
     commands = parser.add_subparsers(dest="library_command", metavar="ACTION")
@@ -44,17 +38,17 @@ def register(subparsers) -> None:
     importing = commands.add_parser("import", help="import parts from a CSV file (all rows or none)")
     importing.add_argument("csv", metavar="F.csv", help="the parts CSV (SPEC columns, any order)")
     importing.add_argument("--dry-run", action="store_true", help="check the file and report; write nothing")
-    _add_library_option(importing)
+    add_library_option(importing)
     importing.set_defaults(func=_import)
 
     export = commands.add_parser("export", help="export every part as CSV")
     export.add_argument("--output", metavar="F", help="file to write (default: standard output)")
-    _add_library_option(export)
+    add_library_option(export)
     export.set_defaults(func=_export)
 
     listing = commands.add_parser("list", help="list the parts")
     listing.add_argument("--format", choices=("table", "json"), default="table", help="output format")
-    _add_library_option(listing)
+    add_library_option(listing)
     listing.set_defaults(func=_list)
 
 

@@ -9,16 +9,11 @@ transcribed.
 
 from __future__ import annotations
 
-import argparse
 import sys
 from pathlib import Path
 
+from partpick.cli import add_library_option
 from partpick.errors import InputError
-
-
-def _add_library_option(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("--library", metavar="PATH|URL", default=argparse.SUPPRESS,
-                        help="the library (a file or an SQLAlchemy URL); default: your own library")
 
 
 def register(subparsers) -> None:
@@ -26,20 +21,20 @@ def register(subparsers) -> None:
     commands = parser.add_subparsers(dest="policy_command", metavar="ACTION")
     parser.set_defaults(func=_no_action)
     listing = commands.add_parser("list", help="list the built-in and the library's policies")
-    _add_library_option(listing)
+    add_library_option(listing)
     listing.set_defaults(func=_list)
     show = commands.add_parser("show", help="print one policy as TOML")
     show.add_argument("name", metavar="NAME")
-    _add_library_option(show)
+    add_library_option(show)
     show.set_defaults(func=_show)
     importing = commands.add_parser("import", help="store a policy from a TOML file in the library")
     importing.add_argument("file", metavar="F.toml")
-    _add_library_option(importing)
+    add_library_option(importing)
     importing.set_defaults(func=_import)
     export = commands.add_parser("export", help="write one policy as TOML")
     export.add_argument("name", metavar="NAME")
     export.add_argument("--output", metavar="F", help="file to write (default: standard output)")
-    _add_library_option(export)
+    add_library_option(export)
     export.set_defaults(func=_export)
 
 
