@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import sys
 
 from partpick import __version__
@@ -74,6 +75,11 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_ERROR
     except KeyboardInterrupt:
         print("partpick: interrupted", file=sys.stderr)
+        return EXIT_ERROR
+    except BrokenPipeError:
+        # the reader (`| head`) went away: stop quietly, as other command-line tools do
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
         return EXIT_ERROR
 
 
