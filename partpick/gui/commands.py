@@ -89,13 +89,14 @@ class CheckJob:
     library: dict
     generation: int = 0
     options: dict = field(default_factory=dict)
+    arrays: object = None  # `parts` as a PartArrays (LibraryModel.part_arrays), passed to run_check if given
 
     def run(self) -> tuple[dict, float]:
         from partpick.checks.service import run_check
 
         start = time.perf_counter()
-        result = run_check(self.requirement, self.parts, policies=self.policies, library=self.library,
-                           **self.options)
+        result = run_check(self.requirement, self.parts if self.arrays is None else self.arrays,
+                           policies=self.policies, library=self.library, **self.options)
         return result, (time.perf_counter() - start) * 1e3
 
 
@@ -170,7 +171,7 @@ class Workbench:
         """A check of the current requirement over the whole library (InputError if the form has errors)."""
         requirement = self.requirement.build_requirement()
         return CheckJob(requirement, list(self.library.parts), self.library.policies(),
-                        self.library.library_info(), generation, options)
+                        self.library.library_info(), generation, options, self.library.part_arrays())
 
     def selected_candidate(self) -> str | None:
         return self.result.selected[0] if self.result.selected else None

@@ -103,7 +103,10 @@ class _CurvePage(QWidget):
                     continue
                 curves = curve_sets[col]
                 # Same kinds of curves as last time (an edit): the plots layer updates them in place.
-                items = plots.redraw(plot_item, plot_name, curves, self.items[col][row], **options)
+                # Only the first column fits its view to the data: the others follow its axes
+                # (`_link_axes`), and fitting them first would only be undone by the link.
+                items = plots.redraw(plot_item, plot_name, curves, self.items[col][row], auto_range=col == 0,
+                                     **options)
                 self.items[col][row] = items
                 section = self._section(curves)
                 if items:
@@ -129,9 +132,14 @@ class _CurvePage(QWidget):
         """Same scales across parts, so the eye compares curves, not axes."""
         cells = self.cells
         for row in range(len(self.rows)):
+            lead = cells[0][row].getViewBox()
             for column in cells[1:]:
-                column[row].setXLink(cells[0][row])
-                column[row].setYLink(cells[0][row])
+                view = column[row].getViewBox()
+                # Linking again would re-connect and re-range every item for nothing.
+                if view.linkedView(view.XAxis) is not lead:
+                    column[row].setXLink(cells[0][row])
+                if view.linkedView(view.YAxis) is not lead:
+                    column[row].setYLink(cells[0][row])
 
     def shutdown(self) -> None:
         if not self.widgets:
@@ -243,11 +251,19 @@ class CurvesView(QWidget):
         page.draw(self.curve_sets)
         for column in page.cells:
             for plot_item in column:
+                # Each only where it is not so already: every one rebuilds rich text or an axis picture.
                 for name in ("left", "bottom"):
-                    plot_item.getAxis(name).setTextPen(self._text_colour)
-                    plot_item.getAxis(name).setPen(self._text_colour)
+                    axis = plot_item.getAxis(name)
+                    if axis.textPen().color() != self._text_colour:
+                        axis.setTextPen(self._text_colour)
+                    if axis.pen().color() != self._text_colour:
+                        axis.setPen(self._text_colour)
                 # Titles a size smaller than the plots layer's: up to four plots share the width.
-                plot_item.setTitle(plot_item.titleLabel.text, size="9pt", color=self._text_colour)
+                label = plot_item.titleLabel
+                styled = (label.text, self._text_colour.name())
+                if getattr(label, "_partpick_styled", None) != styled:
+                    plot_item.setTitle(label.text, size="9pt", color=self._text_colour)
+                    label._partpick_styled = styled
         self._update_legends()
         self.redraws += 1
 
@@ -261,7 +277,8 @@ class CurvesView(QWidget):
                     legend = plot_item.legend
                     if legend is None:
                         continue
-                    legend.setLabelTextSize("8pt")
+                    if legend.opts.get("labelTextSize") != "8pt":  # new entries take the legend's size
+                        legend.setLabelTextSize("8pt")
                     # On the I–V tab the log plot's upper left (low VF, high IF) is the emptiest.
                     legend.setVisible(visible and col == 0 and row == len(column) - 1)
 

@@ -392,6 +392,7 @@ class LibraryModel:
         self.parts: list[dict] = []
         self._by_number: dict[str, dict] = {}
         self._content_hash: str | None = None
+        self._arrays = None  # the checker's PartArrays of `parts`, built at the first check after a change
         self.filter_kind = ""
         self.filter_package = ""
         self.filter_text = ""
@@ -429,6 +430,7 @@ class LibraryModel:
         self.parts = self.library.list_parts() if self.library is not None else []
         self._by_number = {p["part_number"]: p for p in self.parts}
         self._content_hash = None
+        self._arrays = None
 
     def library_info(self) -> dict:
         """``{"location", "content_hash"}`` for run_check (SPEC §5 `library`).
@@ -441,6 +443,20 @@ class LibraryModel:
         if self._content_hash is None:
             self._content_hash = self.library.content_hash()
         return {"location": self.library.location, "content_hash": self._content_hash}
+
+    def part_arrays(self):
+        """`parts` as the checker's `PartArrays`, converted once per change of the library.
+
+        Every recheck passes it to ``run_check`` in place of the dicts (the same parts, so the
+        same result), which skips the dict → array conversion on each settled edit. It is never
+        modified (the checker works on subsets), so a worker thread may read it while the UI
+        thread builds the next job; a reload makes a new one.
+        """
+        if self._arrays is None:
+            from partpick.checks.partdata import PartArrays
+
+            self._arrays = PartArrays(self.parts)
+        return self._arrays
 
     def policies(self) -> dict:
         """The library's own derating policies as the CLI loads them (the checker adds the built-ins)."""

@@ -146,6 +146,12 @@ def _interp_delta(u, s, scale):
     return scale * np.where(small, u, np.expm1(safe * u) / safe)
 
 
+# Rows of solve_shunt's per-element table.
+(_VS, _R, _IL, _TA, _RTH, _VZ, _ALPHA, _LN_IZT, _IZT, _ZZT, _LN_IZK, _ZZKIZK, _S, _DV_KNEE,
+ _SCALE, _VZ_ALPHA, _SMALL, _SAFE) = range(18)
+_ROWS = 18
+
+
 @dataclass(frozen=True)
 class ShuntPoint:
     """Operating point of a series resistor + Zener shunt regulator with a current load.
@@ -211,13 +217,22 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
     v_open = Vs - IL * R
     collapsed = v_open <= 0
     Izt, Zzt, Izk, Zzk, slope, dv_knee = model._shape()
-    full = {
-        "Vs": Vs, "R": R, "IL": IL, "Ta": Ta, "Rth": Rth,
-        "vz": np.asarray(model.voltage, dtype=float), "alpha": np.asarray(model.temperature_coefficient, dtype=float),
-        "ln_izt": np.log(Izt), "Izt": Izt, "Zzt": Zzt, "ln_izk": np.log(Izk), "ZzkIzk": Zzk * Izk,
-        "s": slope, "dv_knee": dv_knee,
-    }
-    full = {k: np.broadcast_to(v, shape).ravel() for k, v in full.items()}
+    # Every per-element input as one row of a (rows, N) table: dropping the converged elements
+    # is then one indexing step over the table, not one per input. The rows after "dv_knee" are
+    # products the iteration needs on every pass, formed once (the same operations, so the same
+    # numbers, as forming them inside the loop).
+    columns = (Vs, R, IL, Ta, Rth, np.asarray(model.voltage, dtype=float),
+               np.asarray(model.temperature_coefficient, dtype=float), np.log(Izt), Izt, Zzt, np.log(Izk),
+               Zzk * Izk, slope, dv_knee)
+    size = int(np.prod(shape, dtype=np.int64))
+    table = np.empty((_ROWS, size))
+    for row, value in enumerate(columns):
+        table[row].reshape(shape)[...] = value
+    table[_SCALE] = table[_ZZT] * table[_IZT]
+    table[_VZ_ALPHA] = table[_VZ] * table[_ALPHA]
+    sp1 = table[_S] + 1.0
+    table[_SMALL] = np.abs(sp1) < 1e-9
+    table[_SAFE] = np.where(table[_SMALL] != 0, 1.0, sp1)
 
     # The unknown is u = ln Iz. Kirchhoff gives V(Iz) = Vs − (Iz + IL)·R and the
     # self-heating Tj(Iz) = Ta + V·Iz·RthJA explicitly, and the root of
@@ -225,65 +240,83 @@ def solve_shunt(model: ZenerModel, supply, resistance, load_current, ambient, th
     # linear in u, above it both terms are smooth, so Newton in u is well behaved.
     def state(w, u):
         iz = np.exp(u)
-        v = w["Vs"] - (iz + w["IL"]) * w["R"]
-        tj = np.maximum(w["Ta"] + np.maximum(v, 0.0) * iz * w["Rth"], 1.0)
-        rel_t = u - w["ln_izt"]
-        knee = _interp_delta(np.clip(u, w["ln_izk"], w["ln_izt"]) - w["ln_izt"], w["s"], w["Zzt"] * w["Izt"])
-        delta = np.where(rel_t >= 0, w["Zzt"] * (iz - w["Izt"]),
-                         np.where(u >= w["ln_izk"], knee,
-                                  w["dv_knee"] + w["ZzkIzk"] * (np.minimum(u, w["ln_izk"]) - w["ln_izk"])))
-        h = w["vz"] * (1.0 + w["alpha"] * (tj - T0_K)) + delta - v
-        z = np.where(rel_t >= 0, w["Zzt"],
-                     np.where(u >= w["ln_izk"], w["Zzt"] * np.exp(w["s"] * np.minimum(rel_t, 0.0)),
-                              w["ZzkIzk"] / iz))
+        v = w[_VS] - (iz + w[_IL]) * w[_R]
+        tj = np.maximum(w[_TA] + np.maximum(v, 0.0) * iz * w[_RTH], 1.0)
+        rel_t = u - w[_LN_IZT]
+        above = rel_t >= 0
+        delta = np.where(above, w[_ZZT] * (iz - w[_IZT]),
+                         w[_DV_KNEE] + w[_ZZKIZK] * (np.minimum(u, w[_LN_IZK]) - w[_LN_IZK]))
+        z = np.where(above, w[_ZZT], w[_ZZKIZK] / iz)
+        # Between Izk and Izt (ln Z linear in ln Iz): the exponentials are taken only there, the
+        # costly part of a pass. There u is already within [ln Izk, ln Izt), so u − ln Izt is
+        # the clipped offset `_interp_delta` takes and min(u − ln Izt, 0) is u − ln Izt.
+        knee = np.flatnonzero(~above & (u >= w[_LN_IZK]))
+        if knee.size:
+            rel = rel_t[knee]
+            safe = w[_SAFE, knee]
+            delta[knee] = w[_SCALE, knee] * np.where(w[_SMALL, knee] != 0, rel, np.expm1(safe * rel) / safe)
+            z[knee] = w[_ZZT, knee] * np.exp(w[_S, knee] * rel)
+        h = w[_VZ] * (1.0 + w[_ALPHA] * (tj - T0_K)) + delta - v
         return iz, v, h, z
 
     flat_collapsed = collapsed.ravel()
-    iz_max = np.where(flat_collapsed, 1.0, np.maximum(full["Vs"] - full["IL"] * full["R"], 1e-300) / full["R"])
+    iz_max = np.where(flat_collapsed, 1.0, np.maximum(table[_VS] - table[_IL] * table[_R], 1e-300) / table[_R])
     u_hi = np.log(iz_max)
-    u_lo = np.minimum(np.log(_NEGLIGIBLE_CURRENT_FRACTION * full["Izt"]), u_hi - 1.0)
+    u_lo = np.minimum(np.log(_NEGLIGIBLE_CURRENT_FRACTION * table[_IZT]), u_hi - 1.0)
     # Where even a negligible current in breakdown needs more than Vs − IL·R, the
     # Zener does not conduct: Iz ≈ 0 and V = Vs − IL·R.
-    _, _, h_lo, _ = state(full, u_lo)
+    _, _, h_lo, _ = state(table, u_lo)
     off = flat_collapsed | (h_lo >= 0)
-    vz_cold = full["vz"] * (1.0 + full["alpha"] * (full["Ta"] - T0_K))
-    iz_guess = np.clip((full["Vs"] - vz_cold) / full["R"] - full["IL"], np.exp(u_lo), 0.5 * iz_max)
+    vz_cold = table[_VZ] * (1.0 + table[_ALPHA] * (table[_TA] - T0_K))
+    iz_guess = np.clip((table[_VS] - vz_cold) / table[_R] - table[_IL], np.exp(u_lo), 0.5 * iz_max)
     u_result = np.where(off, u_lo, np.log(iz_guess))
 
-    # Work only on the elements still iterating; converged ones are written back and dropped.
+    # Work only on the elements still iterating. A converged element is written back at once
+    # and no longer counts (`alive`); the table is compacted once a quarter of it is converged
+    # (compacting costs about half a pass, so dropping a few elements at a time would not pay).
     index = np.flatnonzero(~off)
-    work = {k: v[index] for k, v in full.items()}
+    work = table.take(index, axis=1)  # C order: each row stays contiguous
     u = u_result[index]
     lo, hi = u_lo[index], u_hi[index]
     step_before = hi - lo
+    alive = np.ones(index.size, dtype=bool)
+    remaining = index.size
     for _ in range(max_iterations):
-        if index.size == 0:
+        if remaining == 0:
             break
         iz, v, h, z = state(work, u)
-        lo = np.where(h < 0, u, lo)
-        hi = np.where(h < 0, hi, u)
-        z_plus_r = z + work["R"]
-        dtj = work["Rth"] * (v - iz * work["R"])
-        dh = iz * (z_plus_r + work["vz"] * work["alpha"] * dtj)
-        newton = u - h / np.where(dh > 0, dh, 1.0)
+        negative = h < 0
+        lo = np.where(negative, u, lo)
+        hi = np.where(negative, hi, u)
+        z_plus_r = z + work[_R]
+        dtj = work[_RTH] * (v - iz * work[_R])
+        dh = iz * (z_plus_r + work[_VZ_ALPHA] * dtj)
+        rising = dh > 0
+        newton = u - h / np.where(rising, dh, 1.0)
         # Safeguarded Newton ("rtsafe", Press et al., Numerical Recipes): bisect where
         # the step leaves the bracket or does not at least halve the step before it.
         slow = np.abs(2.0 * h) > np.abs(step_before * dh)
-        use_newton = (newton >= lo) & (newton <= hi) & (dh > 0) & ~slow
+        use_newton = (newton >= lo) & (newton <= hi) & rising & ~slow
         u_next = np.where(use_newton, newton, 0.5 * (lo + hi))
         step = np.abs(u_next - u)
         # a step in ln Iz is a relative step in Iz; the voltage error it leaves is Iz·(Z + R)·step
         done = (step * iz * z_plus_r <= tolerance * np.maximum(1.0, np.abs(v))) | (h == 0)
-        u_result[index[done]] = u_next[done]
-        if done.any():
-            keep = ~done
+        done &= alive
+        finished = int(np.count_nonzero(done))
+        if finished:
+            u_result[index[done]] = u_next[done]
+            alive &= ~done
+            remaining -= finished
+        if remaining and 4 * (alive.size - remaining) >= alive.size:
+            keep = np.flatnonzero(alive)
             index = index[keep]
-            work = {k: w[keep] for k, w in work.items()}
+            work = work.take(keep, axis=1)
             u, lo, hi, step_before = u_next[keep], lo[keep], hi[keep], step[keep]
+            alive = np.ones(keep.size, dtype=bool)
         else:
             u, step_before = u_next, step
     else:
-        if index.size:
+        if remaining:
             raise RuntimeError("solve_shunt: safeguarded Newton on ln Iz did not converge")
     u_result = u_result.reshape(shape)
     off = off.reshape(shape)

@@ -57,5 +57,7 @@ def set_axis(plot_item: pg.PlotItem, name: str, title: str, unit: str, *, log: b
     """Label an axis with its base unit; on a log axis (or a unit without prefixes) no auto SI prefix."""
     axis = plot_item.getAxis(name)
     prefixable = not log and unit not in _NO_PREFIX_UNITS
+    if axis.labelText == (title or "") and axis.labelUnits == (unit or "") and axis.autoSIPrefix == prefixable:
+        return  # already so (a redraw): re-setting it would only rebuild the label's rich text
     axis.enableAutoSIPrefix(prefixable)
     axis.setLabel(title, units=unit or None)

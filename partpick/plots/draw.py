@@ -192,12 +192,14 @@ def _setup(plot_item, section, log_x, log_y, title, legend):
     plot_item.showGrid(x=True, y=True, alpha=0.25)
     if title:
         # Titles and legend entries are rich text in pyqtgraph: user text (part numbers) is escaped.
-        plot_item.setTitle(html.escape(section.get("title", "")))
+        text = html.escape(section.get("title", ""))
+        if text != plot_item.titleLabel.text or not plot_item.titleLabel.isVisible():
+            plot_item.setTitle(text)
     _legend(plot_item, legend)
 
 
 def draw_section(plot_item: pg.PlotItem, section: dict | None, *, log_x: bool = False, log_y: bool = False,
-                 title: bool = True, legend: str = "top_left") -> DrawnItems:
+                 title: bool = True, legend: str = "top_left", auto_range: bool = True) -> DrawnItems:
     """Draw one curve section (see `partpick.checks.curves`) and return the items added.
 
     Parameters
@@ -213,6 +215,9 @@ def draw_section(plot_item: pg.PlotItem, section: dict | None, *, log_x: bool = 
         Set the plot title from the section.
     legend : str
         The legend's corner: ``"top_left"``, ``"top_right"`` or ``"bottom_right"``.
+    auto_range : bool
+        Fit the view to the data (False for a plot whose axes follow another plot's, which
+        would only be fitted and then moved to the other plot's range).
 
     Returns
     -------
@@ -232,13 +237,15 @@ def draw_section(plot_item: pg.PlotItem, section: dict | None, *, log_x: bool = 
             plot_item.addItem(item)
         items.extend(created)
         groups.append(len(created))
-    plot_item.enableAutoRange()
+    if auto_range:
+        plot_item.enableAutoRange()
     signature = (log_x, log_y, title, legend, tuple((e["kind"], e["role"]) for e in plan))
     return DrawnItems(items, plan, signature, groups)
 
 
 def redraw_section(plot_item: pg.PlotItem, section: dict | None, previous: list | None, *, log_x: bool = False,
-                   log_y: bool = False, title: bool = True, legend: str = "top_left") -> DrawnItems:
+                   log_y: bool = False, title: bool = True, legend: str = "top_left",
+                   auto_range: bool = True) -> DrawnItems:
     """Show ``section`` in place of ``previous`` (what an earlier draw returned), as fast as possible.
 
     When the same kinds of curves, points and lines are drawn again (an edited
@@ -256,11 +263,13 @@ def redraw_section(plot_item: pg.PlotItem, section: dict | None, previous: list 
                 _update(plot_item, entry, old, previous[start:start + count])
                 start += count
             previous.plan = plan
-            plot_item.enableAutoRange()
+            if auto_range:
+                plot_item.enableAutoRange()
             return previous
     if previous:
         clear_items(plot_item, previous)
-    return draw_section(plot_item, section, log_x=log_x, log_y=log_y, title=title, legend=legend)
+    return draw_section(plot_item, section, log_x=log_x, log_y=log_y, title=title, legend=legend,
+                        auto_range=auto_range)
 
 
 def clear_items(plot_item: pg.PlotItem, items: list) -> None:
@@ -316,13 +325,15 @@ _PLOTS = {
 }
 
 
-def redraw(plot_item, plot: str, curves: dict, previous: list | None = None, *, log_current: bool = False) -> DrawnItems:
+def redraw(plot_item, plot: str, curves: dict, previous: list | None = None, *, log_current: bool = False,
+           auto_range: bool = True) -> DrawnItems:
     """Redraw one of the plots (``"forward"``, ``"breakdown"``, ``"iv"`` — the role's I–V —,
     ``"zener_output"``, ``"junction_temperature"``, ``"power"``) from new curve data, updating
-    ``previous`` in place where it can (see `redraw_section`)."""
+    ``previous`` in place where it can (see `redraw_section`; ``auto_range=False`` for a plot
+    whose axes are linked to another's)."""
     if plot == "iv":
         plot = "breakdown" if curves.get("role") == "zener_shunt" else "forward"
     key, options = _PLOTS[plot]
     if key in ("forward", "breakdown"):
         options = dict(options, log_y=log_current)
-    return redraw_section(plot_item, curves.get(key), previous, **options)
+    return redraw_section(plot_item, curves.get(key), previous, auto_range=auto_range, **options)

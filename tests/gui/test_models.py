@@ -168,6 +168,25 @@ def test_library_model_content_hash_is_the_stores_and_follows_edits(library):
     assert model.get_part(part["part_number"])["notes"] == "edited in a test"
 
 
+def test_library_model_part_arrays_are_built_once_and_follow_edits(library):
+    """The rechecks share one PartArrays per library state; it gives the CLI's result (the same parts)."""
+    from partpick.checks.requirement import requirement_from_dict
+    from partpick.checks.service import run_check
+
+    model = LibraryModel(library)
+    arrays = model.part_arrays()
+    assert model.part_arrays() is arrays  # no conversion on the next recheck
+    assert arrays.part_number.tolist() == [p["part_number"] for p in model.parts]
+    req = requirement_from_dict(dict(name="t", role="series", supply_min_V=10.0, supply_max_V=14.0, load_min_A=0.1,
+                                     load_max_A=1.0, ambient_min_C=-20.0, ambient_max_C=60.0), "test")
+    assert run_check(req, arrays, top=10) == run_check(req, model.parts, top=10)
+    part = dict(model.parts[0], price=12.5)
+    model.save_part(part, replace=part["part_number"])
+    changed = model.part_arrays()
+    assert changed is not arrays
+    assert changed.raw["price"][0] == 12.5 and arrays.raw["price"][0] != 12.5  # the old snapshot is untouched
+
+
 def test_free_part_number_for_duplicates(library):
     model = LibraryModel(library)
     number = model.parts[0]["part_number"]

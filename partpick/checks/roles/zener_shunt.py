@@ -169,16 +169,22 @@ class ZenerShuntRole(Role):
         r_nominal = np.where(unsolved, 1000.0, resistance)
         r_factor = np.where(r_end == 1, 1 + tolerance_pct / 100.0, 1 - tolerance_pct / 100.0)
         R = r_nominal[:, None] * r_factor[None, :]
-        vz_points = np.where(vz_end[None, :] == 1, np.ravel(high.voltage)[:, None], np.ravel(low.voltage)[:, None])
-        model = ZenerModel(voltage=vz_points, test_current=low.test_current, test_impedance=low.test_impedance,
-                           knee_current=low.knee_current, knee_impedance=low.knee_impedance,
-                           temperature_coefficient=low.temperature_coefficient)
-        shunt = solve_shunt(model, supply, R, load, ambient_K, rth[:, None])
-        mask = unsolved[:, None]
-        vout = np.where(mask, np.nan, shunt.output_voltage)
-        iz = np.where(mask, np.nan, shunt.zener_current)
-        tj_C = np.where(mask, np.nan, shunt.junction_temperature - ZERO_CELSIUS_K)
-        pz = np.where(mask, np.nan, shunt.power)
+        # Only the parts whose results are shown are solved (the solver works element by element,
+        # so a subset gives the same numbers); the others stay NaN.
+        solved = np.flatnonzero(~unsolved)
+        vout, iz, tj_C, pz = (np.full((count, len(combos)), np.nan) for _ in range(4))
+        if solved.size:
+            vz_points = np.where(vz_end[None, :] == 1, np.ravel(high.voltage)[solved, None],
+                                 np.ravel(low.voltage)[solved, None])
+            model = ZenerModel(voltage=vz_points, test_current=low.test_current[solved],
+                               test_impedance=low.test_impedance[solved], knee_current=low.knee_current[solved],
+                               knee_impedance=low.knee_impedance[solved],
+                               temperature_coefficient=low.temperature_coefficient[solved])
+            shunt = solve_shunt(model, supply, R[solved], load, ambient_K, rth[solved, None])
+            vout[solved] = shunt.output_voltage
+            iz[solved] = shunt.zener_current
+            tj_C[solved] = shunt.junction_temperature - ZERO_CELSIUS_K
+            pz[solved] = shunt.power
         p_resistor = (supply - vout) ** 2 / R
         error = 100.0 * np.abs(vout - zr.target_V) / zr.target_V
 
