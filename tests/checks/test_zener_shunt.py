@@ -76,11 +76,15 @@ DESIGN = dict(part_number="ZD-5V6", kind="zener", package="SOD-123", vz_V=5.6, v
               zzt_ohm=5.0, izk_A=1e-3, zzk_ohm=400.0, vz_tc_pct_per_K=0.03, pd_W=0.5, tj_max_C=150.0)
 
 
+def _design_requirement(**zener):
+    """The design's circuit: 9–14 V supply, 0–10 mA load, −20…70 °C ambient, with the given [zener] table."""
+    return make_requirement(role="zener_shunt", supply_min_V=9.0, supply_max_V=14.0, load_min_A=0.0,
+                            load_max_A=0.010, ambient_min_C=-20.0, ambient_max_C=70.0, zener=zener)
+
+
 def test_zener_design_against_brentq_corner_by_corner():
     part = make_part(**DESIGN)
-    req = make_requirement(role="zener_shunt", supply_min_V=9.0, supply_max_V=14.0, load_min_A=0.0,
-                           load_max_A=0.010, ambient_min_C=-20.0, ambient_max_C=70.0,
-                           zener=dict(target_V=5.6, max_regulation_error_pct=10.0))
+    req = _design_requirement(target_V=5.6, max_regulation_error_pct=10.0)
     result = run_check(req, [part])
     json.dumps(result, allow_nan=False)
     cand = result["candidates"][0]
@@ -147,9 +151,7 @@ def test_eseries_choice_at_decade_edges(supply, series, bound):
 
 def test_supply_too_low_is_a_failed_feasibility_check():
     part = make_part(**dict(DESIGN, vz_V=12.0))
-    req = make_requirement(role="zener_shunt", supply_min_V=9.0, supply_max_V=14.0, load_min_A=0.0,
-                           load_max_A=0.010, ambient_min_C=-20.0, ambient_max_C=70.0,
-                           zener=dict(target_V=5.6, max_regulation_error_pct=10.0))
+    req = _design_requirement(target_V=5.6, max_regulation_error_pct=10.0)
     result = run_check(req, [part])
     json.dumps(result, allow_nan=False)
     cand = result["candidates"][0]
@@ -216,9 +218,7 @@ def test_review_mode_solves_a_given_resistor_even_when_infeasible():
     # A 12 V Zener from 9–14 V with a given 100 Ω: the supply can never reach Vz at its minimum, so
     # `feasible` fails, but the given design is still solved and its checks carry values.
     part = make_part(**dict(DESIGN, vz_V=12.0))
-    req = make_requirement(role="zener_shunt", supply_min_V=9.0, supply_max_V=14.0, load_min_A=0.0,
-                           load_max_A=0.010, ambient_min_C=-20.0, ambient_max_C=70.0,
-                           zener=dict(target_V=12.0, max_regulation_error_pct=10.0, resistor_ohm=100.0))
+    req = _design_requirement(target_V=12.0, max_regulation_error_pct=10.0, resistor_ohm=100.0)
     cand = run_check(req, [part])["candidates"][0]
     checks = _by_name(cand)
     assert not checks["feasible"]["passed"]
