@@ -5,6 +5,8 @@ from __future__ import annotations
 import numpy as np
 from scipy import constants as _c
 
+from partpick.physics._validate import scalar_or_array
+
 BOLTZMANN: float = _c.k
 """Boltzmann constant k [J/K] (CODATA, exact since 2019)."""
 
@@ -20,9 +22,9 @@ T0_K: float = ZERO_CELSIUS_K + 25.0
 
 def celsius_to_kelvin(temperature_c):
     """Convert °C to K (the boundary where user-facing °C enters the SI core)."""
-    return np.asarray(temperature_c, dtype=float) + ZERO_CELSIUS_K if np.ndim(temperature_c) else float(temperature_c) + ZERO_CELSIUS_K
+    return scalar_or_array(np.asarray(temperature_c, dtype=float) + ZERO_CELSIUS_K, temperature_c)
 
 
 def kelvin_to_celsius(temperature_k):
     """Convert K to °C (for output only)."""
-    return np.asarray(temperature_k, dtype=float) - ZERO_CELSIUS_K if np.ndim(temperature_k) else float(temperature_k) - ZERO_CELSIUS_K
+    return scalar_or_array(np.asarray(temperature_k, dtype=float) - ZERO_CELSIUS_K, temperature_k)
