@@ -69,6 +69,28 @@ RATING_OF_CHECK = {
     "zener_current_min": ("izk_A", "Izk", "A"),
 }
 
+
+
+def _merge_role_words() -> None:
+    """Each role's own words (`Role.check_labels`, `metric_labels`, `key_metrics`, `rating_of_check`)."""
+    global METRIC_ORDER
+    from partpick.checks.roles import ROLES
+
+    for role in ROLES.values():
+        ROLE_LABELS.setdefault(role.name, role.label)
+        for key, label in role.check_labels.items():
+            CHECK_LABELS.setdefault(key, label)
+        for key, label in role.metric_labels.items():
+            METRIC_LABELS.setdefault(key, label)
+        METRIC_ORDER += tuple(k for k in role.metric_labels if k not in METRIC_ORDER)
+        if role.key_metrics:
+            KEY_METRICS.setdefault(role.name, role.key_metrics)
+        for key, rating in role.rating_of_check.items():
+            RATING_OF_CHECK.setdefault(key, rating)
+
+
+_merge_role_words()
+
 _SUFFIX_UNITS = (("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"), ("_pct_per_K", "%/K"),
                  ("_ohm", "Ω"), ("_pct", "%"), ("_ms", "ms"), ("_eV", "eV"), ("_V", "V"),
                  ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"))
