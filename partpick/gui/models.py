@@ -588,6 +588,11 @@ def describe_corner(corner: dict | None) -> str:
     if not corner:
         return ""
     bits = []
+    for key, value in corner.items():  # a role's own corner columns (e.g. the AC voltage) lead
+        if key.endswith("_Vrms") and value is not None:
+            bits.append(format_quantity(value, "V", digits=3) + " rms")
+        elif key.endswith("_F") and value is not None:
+            bits.append(re.sub(r"(?<=[\d ])u(?=F)", "µ", format_quantity(value, "F", digits=3)))
     if corner.get("supply_V") is not None:
         bits.append(format_quantity(corner["supply_V"], "V", digits=3))
     if corner.get("load_A") is not None:

@@ -127,11 +127,24 @@ def clean_text(text) -> str:
     return _CONTROL.sub(" ", "" if text is None else str(text))
 
 
+_COMMON_CORNER_KEYS = {"supply_V", "load_A", "ambient_C", "state", "vz_end", "resistor_end"}
+
+
+def _corner_column(key: str, value) -> str:
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        unit = "V rms" if key.endswith("_Vrms") else metric_unit(key)
+        return format_engineering(value, "V" if unit == "V rms" else unit) + (" rms" if unit == "V rms" else "")
+    return clean_text(f"{key.rsplit('_', 1)[0].replace('_', ' ')} {value}")
+
+
 def corner_text(corner: dict | None) -> str:
     """A check's corner in the app's words: '11.0 V · 1.00 A · −20 °C · steady · Vz high · R low'."""
     if not corner:
         return "—"
     text = corner_label(corner.get("supply_V"), corner.get("load_A"), corner.get("ambient_C"), corner.get("state"))
+    role_columns = [_corner_column(k, v) for k, v in corner.items() if k not in _COMMON_CORNER_KEYS]
+    if role_columns:  # a role's own corner columns (e.g. the AC voltage) lead
+        text = " · ".join(role_columns + [text])
     extra = []
     if corner.get("vz_end"):
         extra.append(f"Vz {corner['vz_end']}")
