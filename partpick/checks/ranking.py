@@ -52,6 +52,11 @@ def _scaled(x: np.ndarray, worst_when_unknown: bool = True) -> np.ndarray:
     return np.where(finite, scaled, 1.0 if worst_when_unknown else 0.0)
 
 
+def _objective_key(metrics: dict, name: str) -> np.ndarray:
+    """The metric an objective ranks by, smallest first; a leading "-" ranks the largest first."""
+    return -metrics[name[1:]] if name.startswith("-") else metrics[name]
+
+
 def rank_candidates(result, parts, objective: str, objective_metrics: dict) -> Ranking:
     count = parts.count
     if count == 0:
@@ -61,8 +66,8 @@ def rank_candidates(result, parts, objective: str, objective_metrics: dict) -> R
     failed_count = failed.sum(axis=1)
     passed = failed_count == 0
     smallest = keyed.min(axis=1)
-    drop = result.metrics[objective_metrics["drop"]]
-    dissipation = result.metrics[objective_metrics["dissipation"]]
+    drop = _objective_key(result.metrics, objective_metrics["drop"])
+    dissipation = _objective_key(result.metrics, objective_metrics["dissipation"])
     price = parts.raw["price"]
     if objective == "drop":
         key = drop

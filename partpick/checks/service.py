@@ -148,7 +148,7 @@ def select_candidates(requirement, parts, *, keep: tuple[str, ...] = ()) -> Part
         numbers, kind, package, lifecycle = (object_array(c) for c in columns[:4])
         price = np.array(columns[4], dtype=float).reshape(-1)
     role = ROLES[requirement.role]
-    considered = _member(kind, role.kinds)
+    considered = _member(kind, role.candidate_kinds(requirement))
     mask = considered & _filter_mask(kind, package, lifecycle, price, requirement)
     if keep:
         index_of = {n: i for i, n in enumerate(numbers.tolist())}
@@ -160,7 +160,7 @@ def select_candidates(requirement, parts, *, keep: tuple[str, ...] = ()) -> Part
             i = index_of[number]
             if not considered[i]:
                 raise InputError(f"part {number!r} is a {kind[i]} part; role {role.name!r} considers "
-                                 f"{', '.join(role.kinds)}")
+                                 f"{', '.join(role.candidate_kinds(requirement))} here")
             mask[i] = True
     index = np.flatnonzero(mask)
     if isinstance(parts, PartArrays):
@@ -249,7 +249,8 @@ def _deltas(entry: dict, reference: dict, parts_by_number: dict, role: Role) -> 
     pkg_a = (mine.get("package") or "").strip().casefold()
     pkg_b = (ref.get("package") or "").strip().casefold()
     out = {"same_package": bool(pkg_a) and pkg_a == pkg_b}
-    for key in (role.objective_metrics["drop"], role.objective_metrics["dissipation"], "junction_temp_C"):
+    for key in (role.objective_metrics["drop"].lstrip("-"), role.objective_metrics["dissipation"].lstrip("-"),
+                "junction_temp_C"):
         out[key] = diff(entry["metrics"].get(key), reference["metrics"].get(key))
     out["smallest_margin_pct"] = diff(_smallest_margin(entry), _smallest_margin(reference))
     out["price"] = diff(mine.get("price"), ref.get("price"))
@@ -370,9 +371,9 @@ def candidate_details(requirement, part: dict, *, policies: dict | None = None) 
         The part is of a kind the requirement's role does not consider, or the policy is unknown.
     """
     role = ROLES[requirement.role]
-    if not role.considers(part.get("kind")):
+    if part.get("kind") not in role.candidate_kinds(requirement):
         raise InputError(f"part {part.get('part_number')!r} is a {part.get('kind')} part; role {role.name!r} "
-                         f"considers {', '.join(role.kinds)}")
+                         f"considers {', '.join(role.candidate_kinds(requirement))} here")
     policy, named = resolve_policy(requirement, policies)
     limits = resolve_limits(policy, requirement, named=named)
     parts = PartArrays([part])

@@ -87,6 +87,10 @@ class Role:
     def considers(self, kind: str) -> bool:
         return kind in self.kinds
 
+    def candidate_kinds(self, requirement) -> tuple[str, ...]:
+        """The kinds this requirement's candidates may be (e.g. a bridge package only for a bridge)."""
+        return self.kinds
+
     def form_group(self):
         """The role's group of the requirement form (`partpick.checks.role_table.FormGroup`), or None."""
         return self.table.form_group(self.name) if self.table is not None else None
