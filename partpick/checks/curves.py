@@ -68,7 +68,7 @@ def format_engineering(value, unit: str = "", digits: int = 3) -> str:
     magnitude = abs(value)
     if magnitude == 0:
         return f"0 {unit}".rstrip()
-    if unit in ("°C", "K", "K/W") or unit.startswith("%"):
+    if unit in ("°C", "K", "K/W", "°") or unit.startswith("%"):
         # Temperatures and ratios read without prefixes.
         text = f"{magnitude:#.{digits}g}".rstrip(".")
         if "e" in text:
@@ -120,7 +120,7 @@ def number(mapping: Mapping, key: str, default=None):
 
 
 def record_forward_model(part: dict, notes: list[str]) -> ForwardModel | None:
-    schottky = part.get("kind") == "schottky"
+    schottky = part.get("kind") == "schottky" or (part.get("kind") == "bridge" and part.get("junction") == "schottky")
     band_gap = number(part, "eg_eV", SCHOTTKY_BAND_GAP_EV if schottky else PN_BAND_GAP_EV)
     exponent = number(part, "is_temp_exponent",
                        SCHOTTKY_TEMPERATURE_EXPONENT if schottky else PN_TEMPERATURE_EXPONENT)

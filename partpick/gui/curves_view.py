@@ -39,13 +39,14 @@ def _role_tabs() -> tuple:
     from partpick.checks.roles import ROLES
 
     common = {"forward", "breakdown"} | {key for key, _t, _r in CURVE_TABS}
-    tabs, seen = [], set()
+    tabs: dict[str, list] = {}  # title → rows; sections with one title share a tab, one plot row each
+    seen = set()
     for role in ROLES.values():
         for section, title, options in role.curve_plots:
             if section not in common and section not in seen:
                 seen.add(section)
-                tabs.append((section, title, ((section, dict(options)),)))
-    return tuple(tabs)
+                tabs.setdefault(title, []).append((section, dict(options)))
+    return tuple((rows[0][0], title, tuple(rows)) for title, rows in tabs.items())
 
 
 def _plots():
@@ -129,7 +130,7 @@ class _CurvePage(QWidget):
                 items = plots.redraw(plot_item, plot_name, curves, self.items[col][row], auto_range=col == 0,
                                      **options)
                 self.items[col][row] = items
-                section = self._section(curves)
+                section = self._section(curves, plot_name)
                 if items:
                     drawn += 1
                     readout = self.readouts[col][row]
@@ -144,10 +145,11 @@ class _CurvePage(QWidget):
         self.dirty = False
         return drawn
 
-    def _section(self, curves: dict):
-        if self.key == "iv":
+    def _section(self, curves: dict, plot_name: str | None = None):
+        plot_name = plot_name or self.key
+        if plot_name == "iv":
             return curves.get("breakdown" if curves.get("role") == "zener_shunt" else "forward")
-        return curves.get(_SECTION_OF.get(self.key, self.key))
+        return curves.get(_SECTION_OF.get(plot_name, plot_name))
 
     def _link_axes(self) -> None:
         """Same scales across parts, so the eye compares curves, not axes."""
@@ -262,7 +264,8 @@ class CurvesView(QWidget):
         role = result["requirement"]["role"] if result else "series"
         sections = self._role_sections.get(role, set())
         for key, page in self.pages.items():
-            shown = bool(sections & {"forward", "breakdown"}) if key == "iv" else key in sections
+            shown = (bool(sections & {"forward", "breakdown"}) if key == "iv"
+                     else bool(sections & {name for name, _o in page.rows} | ({key} & sections)))
             self.tabs.setTabVisible(self.tabs.indexOf(page), shown)
         notes = [f"{c['part_number']}: {note}" for c in sets for note in c.get("notes", [])]
         if not sets:

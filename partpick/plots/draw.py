@@ -66,7 +66,7 @@ def _line_pen(role: str):
 # Where each plot's curves leave room for the legend: I–V curves rise to the
 # right (top left is free), output and temperature curves rise and flatten
 # (bottom right is free). Offsets as pyqtgraph reads them: negative = from the right/bottom.
-_LEGEND_OFFSETS = {"top_left": (10, 10), "bottom_right": (-10, -10), "top_right": (-10, 10)}
+_LEGEND_OFFSETS = {"top_left": (10, 10), "bottom_right": (-10, -10), "top_right": (-10, 10), "bottom_left": (10, -10)}
 
 
 def _legend(plot_item: pg.PlotItem, corner: str) -> pg.LegendItem:

@@ -109,7 +109,8 @@ class AcRectifierRole(Role):
     }
     table = _AC
     curve_plots = (("forward", "I–V", {}), ("forward", "I–V (log)", {"log_y": True}),
-                   ("ac_cycle", "AC cycle", {"legend": "top_right"}),
+                   ("ac_cycle", "AC cycle", {"legend": "bottom_left"}),
+                   ("ac_current", "AC cycle", {"legend": "top_right"}),
                    ("junction_temperature", "Junction temperature", {"legend": "bottom_right"}),
                    ("power", "Power", {"legend": "top_right"}))
     cautions = (MAINS_CAUTION,)
