@@ -39,7 +39,7 @@ REQ_DIR = HERE.parent / "requirements"
 T0 = 298.15
 K_Q = constants.k / constants.e
 TEXT = {"part_number", "kind", "manufacturer", "package", "datasheet", "model_source",
-        "lifecycle", "notes"}
+        "lifecycle", "notes", "junction"}
 failures: list[str] = []
 
 
@@ -342,7 +342,7 @@ def requirement_prechecks(parts):
         allowed = set(req.get("lifecycle") or ["active", "nrnd", "obsolete"])
         kinds = set(req.get("kinds") or [])
         if req["role"] == "series":
-            cands = [p for p in parts if p["kind"] != "zener"]
+            cands = [p for p in parts if p["kind"] not in ("zener", "bridge")]
         else:
             cands = [p for p in parts if p["kind"] == "zener"]
         cands = [p for p in cands if p["lifecycle"] in allowed and (not kinds or p["kind"] in kinds)]

@@ -51,7 +51,7 @@ COLUMNS = (
     "eg_eV", "is_temp_exponent", "model_source", "vf_points", "vf_max_V",
     "vf_max_at_A", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V",
     "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K",
-    "price", "lifecycle", "notes",
+    "price", "lifecycle", "notes", "junction", "ifrm_A",
 )
 
 MAKERS = {
@@ -297,11 +297,37 @@ SCHOTTKY = [
      "second source for 8 A / 100 V Schottky in DPAK"),
 ]
 
+# Bridge rectifiers (kind "bridge", SPEC 4a): four legs in one package. The model, VRRM, IFSM,
+# IFRM and IR are per leg; IF(AV) is the bridge's rated DC output current; RthJA is the
+# package's and carries all four legs. Same row layout as above, plus junction ("pn" or
+# "schottky") and IFRM [A] per leg (None = not given) at the end.
+BRIDGE = [
+    ("VKB05-100", "VK", "MiniDIP-4", 5101, 100, 0.5, 25, 25, 8.3, None, 150, 85,
+     3.0e-9, 1.90, 0.25, 1.12, 0.5, 5.0e-6, 100, None, 0.090, "active", "points",
+     "0.5 A miniature bridge for low-voltage secondaries", "pn", None),
+    ("VKB15-600", "VK", "SMD-4", 5106, 600, 1.5, 25, 50, 8.3, None, 150, 60,
+     4.0e-9, 1.90, 0.090, 1.18, 1.5, 5.0e-6, 600, None, 0.160, "active", "points",
+     "1.5 A surface-mount bridge for off-line supplies", "pn", 12.0),
+    ("VKB40-1000", "VK", "SIP-4", 5110, 1000, 4.0, 25, 150, 8.3, None, 150, 22,
+     6.0e-9, 1.95, 0.030, 1.22, 4.0, 5.0e-6, 1000, None, 0.420, "active", "entered",
+     "4 A in-line bridge, RthJA without heatsink", "pn", 30.0),
+    ("MGB2-200", "MG", "SMD-4", 1902, 200, 2.0, 25, 60, 8.3, None, 150, 55,
+     3.5e-9, 1.90, 0.060, 1.18, 2.0, 5.0e-6, 200, None, 0.140, "active", "points",
+     "2 A bridge for 24 V secondaries", "pn", None),
+    ("MGSB2-060", "MG", "SMD-4", 1960, 60, 2.0, 25, 50, 8.3, None, 125, 60,
+     2.0e-6, 1.10, 0.050, 0.55, 2.0, 5.0e-4, 60, None, 0.260, "active", "points",
+     "2 A Schottky bridge: low drop, high leakage when hot", "schottky", None),
+    ("QFSB4-100", "QF", "SIP-4", 361, 100, 4.0, 25, 100, 8.3, None, 150, 24,
+     1.5e-6, 1.12, 0.025, 0.60, 4.0, 2.0e-4, 100, None, 0.480, "nrnd", "points",
+     "4 A Schottky bridge, 100 V", "schottky", 20.0),
+]
+
 KIND_TABLES = (
     ("signal", SIGNAL),
     ("rectifier", RECTIFIER),
     ("fast_recovery", FAST_RECOVERY),
     ("schottky", SCHOTTKY),
+    ("bridge", BRIDGE),
 )
 
 # ---------------------------------------------------------------------------
@@ -446,9 +472,11 @@ def _zener_pair(cls_name, cls, vz, tc, tolerances=(2, 5)):
 def forward_rows():
     rows = []
     for kind, table in KIND_TABLES:
-        for (pn, maker, package, doc, vrrm, if_avg, if_ref, ifsm, ifsm_ms, pd, tj_max,
+        for entry in table:
+            (pn, maker, package, doc, vrrm, if_avg, if_ref, ifsm, ifsm_ms, pd, tj_max,
              rth, is_a, n, rs, vf_max, vf_max_at, ir, ir_vr, ir_double, price,
-             lifecycle, form, notes) in table:
+             lifecycle, form, notes) = entry[:24]
+            junction, ifrm = entry[24:] if kind == "bridge" else (None, None)
             typ_at_max = float(vf_typical(vf_max_at, is_a, n, rs))
             if not vf_max > 1.02 * typ_at_max:
                 raise SystemExit(f"{pn}: VF max {vf_max} V is not above typical "
@@ -461,6 +489,7 @@ def forward_rows():
                 tj_max_C=tj_max, rth_ja_K_per_W=rth, vf_max_V=vf_max,
                 vf_max_at_A=vf_max_at, ir_A=ir, ir_vr_V=ir_vr, ir_t_C=25,
                 ir_double_K=ir_double, price=price, lifecycle=lifecycle, notes=notes,
+                junction=junction, ifrm_A=ifrm,
             )
             if form == "entered":
                 row.update(is_A=is_a, n=n, rs_ohm=rs, model_source="entered")

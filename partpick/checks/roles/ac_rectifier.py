@@ -52,9 +52,9 @@ _AC = RoleTable("ac", "AC rectifier", (
     TableKey("topology", "", "Topology", "bridge (four diodes or one bridge package), center_tap (two diodes, "
              "a centre-tapped winding) or half_wave (one diode).", kind="choice", required=True,
              choices=("bridge", "center_tap", "half_wave")),
-    TableKey("vac_min_Vrms", "V", "AC min [rms]", "Lowest open-circuit EMF behind source_ohm (for center_tap: "
+    TableKey("vac_min_Vrms", "V", "AC min (rms)", "Lowest open-circuit EMF behind source_ohm (for center_tap: "
              "each half-winding), not the loaded voltage.", required=True, low=0.0, low_inclusive=False, high=1000.0),
-    TableKey("vac_max_Vrms", "V", "AC max [rms]", "Highest open-circuit EMF behind source_ohm.", required=True,
+    TableKey("vac_max_Vrms", "V", "AC max (rms)", "Highest open-circuit EMF behind source_ohm.", required=True,
              low=0.0, low_inclusive=False, high=1000.0),
     TableKey("frequency_Hz", "Hz", "Frequency", "Source frequency (50 or 60 Hz mains).", required=True, low=1.0,
              high=100e3),
