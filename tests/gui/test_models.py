@@ -291,3 +291,30 @@ def test_status_line_counts_beyond_the_listed_candidates():
     result["summary"] = {"candidates": 10000, "passing": 3000, "listed": 2}
     model.set_result(result, 5.2, 10000)
     assert model.status_text() == "3000 of 10000 parts pass · 5 ms · first 2 listed"
+
+
+def test_a_roles_own_table_is_a_form_group_of_its_fields():
+    # The AC rectifier's [ac] table (declared in its role module) becomes the form's "ac.*" fields.
+    from partpick.gui.models import FIELDS_BY_KEY, ROLE_GROUPS
+
+    assert ROLE_GROUPS["ac_rectifier"] == "AC rectifier"
+    spec = FIELDS_BY_KEY["ac.capacitance_F"]
+    assert (spec.table, spec.toml_key, spec.unit, spec.roles) == ("ac", "capacitance_F", "F", ("ac_rectifier",))
+    model = RequirementModel()
+    model.set_text("role", "ac_rectifier")
+    assert not model.applies("supply_min_V") and model.applies("ac.source_ohm") and not model.applies("target_V")
+    for key, text in (("ac.topology", "bridge"), ("ac.vac_min_Vrms", "207"), ("ac.vac_max_Vrms", "253 V"),
+                      ("ac.frequency_Hz", "50"), ("ac.source_ohm", "6"), ("ac.capacitance_F", "47 µF")):
+        model.set_text(key, text)
+    data = model.requirement_dict()
+    assert "supply_min_V" not in data and "zener" not in data
+    assert data["ac"] == {"topology": "bridge", "vac_min_Vrms": 207.0, "vac_max_Vrms": 253.0, "frequency_Hz": 50.0,
+                          "source_ohm": 6.0, "capacitance_F": pytest.approx(47e-6)}
+    req = model.build_requirement()
+    assert req.table("ac").capacitive_derate_pct == 20.0
+    model.set_text("ac.source_ohm", "0")  # the field takes 0 (its minimum); the checker's reader refuses it
+    with pytest.raises(InputError, match="ac.source_ohm"):
+        model.build_requirement()
+    again = RequirementModel()
+    again.load_dict(req.to_dict())  # what the window saves it reads back
+    assert again.requirement_dict()["ac"]["capacitance_F"] == pytest.approx(47e-6)

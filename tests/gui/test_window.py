@@ -202,6 +202,31 @@ def test_zener_requirement(qtbot, window, library_path, tmp_path):
     assert band and expected_band["low"] == pytest.approx(5.1 * 0.95)
 
 
+def test_ac_rectifier_requirement_in_its_own_group(qtbot, window, library_path, tmp_path):
+    choose(qtbot, window, "role", "ac_rectifier")
+    view = window.requirement_view
+    assert view.groups["ac_rectifier"].isVisible() and not view.groups["Zener"].isVisible()
+    assert not view.rows["supply_min_V"][1].isVisible()  # SPEC §4a: no supply_* for this role
+    type_into(qtbot, window, "name", "Relay board, 12 V secondary, bridge rectifier")
+    for key, text in (("load_min_A", "0.1"), ("load_max_A", "600 mA"), ("ambient_min_C", "0"),
+                      ("ambient_max_C", "60"), ("ac.vac_min_Vrms", "11.9"), ("ac.vac_max_Vrms", "14.5 V"),
+                      ("ac.frequency_Hz", "50"), ("ac.source_ohm", "1.2"), ("ac.capacitance_F", "2200 µF"),
+                      ("ac.capacitance_tol_pct", "20"), ("ac.min_dc_V", "10")):
+        type_into(qtbot, window, key, text)
+    choose(qtbot, window, "ac.topology", "bridge")
+    settle(qtbot, window)
+    shown = window.bench.result.result
+    expected = cli_json(library_path, REQUIREMENTS / "ac_relay_board_12V.toml", tmp_path)
+    assert [c["part_number"] for c in shown["candidates"]] == [c["part_number"] for c in expected["candidates"]]
+    assert shown["candidates"][0]["metrics"] == pytest.approx(expected["candidates"][0]["metrics"], rel=1e-9)
+    window.shortlist.select_rows([0])
+    tabs = window.curves.tabs
+    cycle = window.curves.pages["ac_cycle"]
+    assert tabs.isTabVisible(tabs.indexOf(cycle)) and not tabs.isTabVisible(tabs.indexOf(window.curves.pages["zener_output"]))
+    tabs.setCurrentWidget(cycle)
+    assert cycle.items[0][0] and cycle.items[0][1], "the AC cycle plots are empty"
+
+
 def test_model_to_widget_direction(qtbot, window):
     bench = window.bench
     bench.requirement.set_value("supply_max_V", 30.0)

@@ -61,7 +61,10 @@ def test_example_covers_the_scenario(fresh_build):
         parts = library.list_parts()
     kinds = Counter(p["kind"] for p in parts)
     assert len(parts) >= 60
-    assert set(kinds) == {"rectifier", "signal", "schottky", "fast_recovery", "zener"}
+    assert set(kinds) == {"rectifier", "signal", "schottky", "fast_recovery", "zener", "bridge"}
+    bridges = [p for p in parts if p["kind"] == "bridge"]
+    assert {p["junction"] for p in bridges} == {"pn", "schottky"}  # SPEC §4a: invented bridges of both junctions
+    assert any(p["ifrm_A"] for p in bridges) and any(p["ifrm_A"] is None for p in bridges)
     assert any(p["lifecycle"] in ("nrnd", "obsolete") for p in parts)
     assert any(p["model_source"] == "fitted" for p in parts)
     assert any(p["model_source"] == "entered" and not p["vf_points"] for p in parts)

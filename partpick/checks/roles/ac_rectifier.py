@@ -446,7 +446,9 @@ def _repetitive_peak(peak, parts, cur_pct, cur_src, groups, limits, ids, needs) 
         check.value[unrated] = value[unrated]
         check.point[unrated] = np.asarray(ids)[col][unrated]
         check.passed[unrated] = True  # not a pass of a limit: the sheet says "not rated"
-        check.reason[unrated] = "not rated: the part gives no IFRM; the peak is reported, not checked"
+        check.reason[unrated] = None
+        check.note = object_array(None, peak.shape[0])
+        check.note[unrated] = "not rated: the part gives no IFRM; the peak is reported, not checked"
         check.limit_source[unrated] = "no IFRM in the part record"
     return check
 
