@@ -37,7 +37,7 @@ def read_input_bytes(path, what: str = "file", *, limit: int = MAX_INPUT_BYTES) 
     try:
         descriptor = os.open(name, os.O_RDONLY | os.O_NONBLOCK | getattr(os, "O_NOCTTY", 0))
     except OSError as error:
-        raise InputError(f"cannot read {what} {name}: {error.strerror or error}") from error
+        raise InputError(f"{name}: cannot read the {what} ({error.strerror or error})") from error
     try:
         info = os.fstat(descriptor)
         if stat.S_ISDIR(info.st_mode):
@@ -59,7 +59,7 @@ def read_input_bytes(path, what: str = "file", *, limit: int = MAX_INPUT_BYTES) 
             chunks.append(chunk)
         return b"".join(chunks)
     except OSError as error:
-        raise InputError(f"cannot read {what} {name}: {error.strerror or error}") from error
+        raise InputError(f"{name}: cannot read the {what} ({error.strerror or error})") from error
     finally:
         os.close(descriptor)
 

@@ -49,7 +49,7 @@ def _check_sqlite_file(path: Path, location: str) -> None:
         raise LibraryError(f"{location} is not a partpick library (not an SQLite database file); left untouched")
 
 
-def probe_version(url: URL, location: str) -> int | None:
+def probe_version(url: URL, location: str, *, read_only: bool = False) -> int | None:
     """The schema version of the library at ``url``; None for an empty database.
 
     Raises
@@ -57,7 +57,13 @@ def probe_version(url: URL, location: str) -> int | None:
     LibraryError
         The database has tables but is not a partpick library, or cannot be read.
     """
-    engine = create_engine(url)
+    if read_only and sqlite_path(url) is not None:
+        from partpick.library.db import sqlite_read_only_connect
+
+        path = sqlite_path(url)
+        engine = create_engine(url, creator=lambda: sqlite_read_only_connect(path))
+    else:
+        engine = create_engine(url)
     try:
         with engine.connect() as connection:
             if url.get_backend_name() == "sqlite":
@@ -130,7 +136,7 @@ def _migrate(engine: Engine, version: int) -> None:
         connection.execute(update(table).values(version=models.SCHEMA_VERSION))
 
 
-def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -> str | None:
+def prepare_database(url: URL, location: str, engine: Engine, *, create: bool, read_only: bool = False) -> str | None:
     """Make the database at ``url`` a usable library of the current schema.
 
     Parameters
@@ -153,8 +159,10 @@ def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -
                 raise LibraryError(f"cannot create library {location}: folder {path.parent} does not exist")
         else:
             _check_sqlite_file(path, location)
-    version = None if path is not None and not path.exists() else probe_version(url, location)
+    version = None if path is not None and not path.exists() else probe_version(url, location, read_only=read_only)
     if version is None:
+        if read_only:
+            raise LibraryError(f"{location} is an empty database in a read-only place; cannot create a library there")
         if not create:
             raise LibraryError(f"{location} is an empty database, not a partpick library")
         _create_schema(engine)
@@ -163,6 +171,11 @@ def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -
         raise LibraryError(
             f"library {location} was written by a newer partpick (schema {version}; this partpick "
             f"reads up to schema {models.SCHEMA_VERSION}); update partpick to open it"
+        )
+    if version < models.SCHEMA_VERSION and read_only:
+        raise LibraryError(
+            f"library {location} is read-only and was written by an older partpick (schema {version}); "
+            f"it needs migrating to schema {models.SCHEMA_VERSION}: open a writable copy"
         )
     if version < models.SCHEMA_VERSION:
         backup = backup_sqlite(path, version) if path is not None else None

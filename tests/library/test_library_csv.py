@@ -249,8 +249,12 @@ def test_update_summary_added_updated_unchanged(library, write_csv):
     assert (summary.added, summary.updated, summary.unchanged) == (["TST-3"], ["TST-2"], ["TST-1"])
     assert summary.text().endswith("added 1, updated 1, unchanged 1")
     assert library.get_part("TST-2")["vrrm_V"] == 600.0
-    # A row replaces the stored part whole: a column left out means "not known".
+    # A row updates the stored part: a column the file does not carry keeps its value (SPEC §5) ...
     library.import_csv(write_csv("part_number,kind,vrrm_V,if_avg_A,is_A,n,rs_ohm\nTST-3,signal,75,0.2,3e-9,1.8,0.6\n"))
+    assert library.get_part("TST-3")["price"] == 0.01
+    # ... and with replace the row replaces it whole: a column left out means "not known".
+    library.import_csv(write_csv("part_number,kind,vrrm_V,if_avg_A,is_A,n,rs_ohm\nTST-3,signal,75,0.2,3e-9,1.8,0.6\n"),
+                       replace=True)
     assert library.get_part("TST-3")["price"] is None
 
 
