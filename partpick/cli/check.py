@@ -100,6 +100,12 @@ def run(args) -> int:
     from partpick.library.store import open_library
 
     with open_library(location) as library:
+        if library.note:  # e.g. migrated from an older schema, and where the backup is
+            import sys
+
+            from partpick.text import terminal_safe
+
+            print(f"partpick: {terminal_safe(library.note, keep='')}", file=sys.stderr)
         parts = library.list_parts()
         policies = load_policies(library)
         info = {"location": library.location, "content_hash": library.content_hash(parts)}

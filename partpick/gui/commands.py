@@ -193,7 +193,11 @@ class Workbench:
         """Open (or create) a library and make it the window's (LibraryError if it cannot)."""
         from partpick.library.store import open_library
 
-        self.library.set_library(open_library(location, create=create))
+        library = open_library(location, create=create)
+        self.library.set_library(library)
+        note = getattr(library, "note", None)
+        if note and note.startswith("migrated") and self.prompt is not None:
+            self.prompt.show_info("Library migrated", note)  # says where the backup of the old file is
 
     # -- checking -----------------------------------------------------------
     def check_job(self, generation: int = 0, **options) -> CheckJob:
