@@ -9,7 +9,8 @@ Rules, in the order they apply:
    terminal.
 2. **Symbolic links are followed**: the link stays, its target is written.
 3. **Regular files (and new ones) are replaced atomically**: the data goes to a
-   temporary file beside the resolved target, is flushed and fsync'ed, gets
+   temporary file beside the resolved target (unnamed until it is whole, where
+   Linux allows, so a SIGKILL leaves no stray file), is flushed and fsync'ed, gets
    the mode (and, as root, the owner) of the file it replaces, and is renamed
    over it. An interrupted or failed write leaves the old file as it was and
    no partial file.
@@ -28,6 +29,7 @@ Nothing else in partpick opens an output path by itself.
 from __future__ import annotations
 
 import contextlib
+import errno
 import os
 import stat
 import sys
@@ -124,21 +126,12 @@ class OutputTarget:
             raise self._fail(error) from error
         temporary = None
         try:
-            descriptor, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".partpick-tmp",
-                                                     dir=target.parent)
-            with os.fdopen(descriptor, "wb") as stream:
-                stream.write(data)
-                stream.flush()
-                os.fsync(stream.fileno())
-                if old is not None:
-                    os.fchmod(stream.fileno(), stat.S_IMODE(old.st_mode))
-                    if hasattr(os, "geteuid") and os.geteuid() == 0:
-                        with contextlib.suppress(OSError):
-                            os.fchown(stream.fileno(), old.st_uid, old.st_gid)
-                else:
-                    umask = os.umask(0)
-                    os.umask(umask)
-                    os.fchmod(stream.fileno(), 0o666 & ~umask)
+            try:
+                temporary = self._whole_temporary(data, old, unnamed=True)
+            except OSError as error:
+                if error.errno in (errno.ENOSPC, errno.EDQUOT, errno.EIO, errno.EROFS):
+                    raise
+                temporary = self._whole_temporary(data, old, unnamed=False)  # no unnamed files here
             os.replace(temporary, target)
             temporary = None
             with contextlib.suppress(OSError):  # make the rename itself durable
@@ -153,6 +146,68 @@ class OutputTarget:
             if temporary is not None:
                 with contextlib.suppress(OSError):
                     os.unlink(temporary)
+
+    def _whole_temporary(self, data: bytes, old, *, unnamed: bool) -> str:
+        """The data in a complete, fsync'ed temporary file beside the target; returns its name."""
+        target = self.resolved
+        descriptor, temporary = _open_temporary(target, unnamed=unnamed)
+        try:
+            with os.fdopen(descriptor, "wb") as stream:
+                stream.write(data)
+                stream.flush()
+                os.fsync(stream.fileno())
+                if old is not None:
+                    os.fchmod(stream.fileno(), stat.S_IMODE(old.st_mode))
+                    if hasattr(os, "geteuid") and os.geteuid() == 0:
+                        with contextlib.suppress(OSError):
+                            os.fchown(stream.fileno(), old.st_uid, old.st_gid)
+                else:
+                    umask = os.umask(0)
+                    os.umask(umask)
+                    os.fchmod(stream.fileno(), 0o666 & ~umask)
+                if temporary is None:  # an unnamed file: give it a name only now that it is whole
+                    temporary = _link_unnamed(stream.fileno(), target)
+        except BaseException:
+            if temporary is not None:
+                with contextlib.suppress(OSError):
+                    os.unlink(temporary)
+            raise
+        return temporary
+
+
+def _open_temporary(target: Path, *, unnamed: bool = True) -> tuple[int, str | None]:
+    """A file to write in the target's folder: unnamed where the system allows (Linux ``O_TMPFILE``,
+    so a killed process leaves nothing behind), else a named temporary file (mkstemp)."""
+    flag = getattr(os, "O_TMPFILE", 0)
+    if unnamed and flag and os.path.isdir("/proc/self/fd"):
+        try:
+            return os.open(target.parent, flag | os.O_WRONLY, 0o600), None
+        except OSError:
+            pass  # a filesystem without unnamed files
+    descriptor, name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".partpick-tmp", dir=target.parent)
+    return descriptor, name
+
+
+def _link_unnamed(descriptor: int, target: Path) -> str:
+    """Link a whole unnamed file into the target's folder under a fresh temporary name.
+
+    ``linkat(AT_FDCWD, "/proc/self/fd/N", ..., AT_SYMLINK_FOLLOW)`` as the
+    ``open(2)`` manual describes for ``O_TMPFILE`` (os.link does not pass the flag).
+    """
+    import ctypes
+    import ctypes.util
+
+    libc = ctypes.CDLL(ctypes.util.find_library("c") or None, use_errno=True)
+    at_fdcwd, at_symlink_follow = -100, 0x400
+    source = f"/proc/self/fd/{descriptor}".encode()
+    for attempt in range(100):
+        name = str(target.parent / f".{target.name}.{os.getpid()}.{attempt}.partpick-tmp")
+        if libc.linkat(at_fdcwd, source, at_fdcwd, os.fsencode(name), at_symlink_follow) == 0:
+            return name
+        code = ctypes.get_errno()
+        if code != errno.EEXIST:
+            raise OSError(code, os.strerror(code), name)
+    raise FileExistsError(f"no free temporary name beside {target}")
 
 
 def prepare_output(
