@@ -72,9 +72,10 @@ def read_stream_bytes(stream, name: str, what: str = "file", *, limit: int = MAX
     return data
 
 
-def _depth(value, level: int = 0) -> int:
-    deepest = level
-    stack = [(value, level)]
+def _depth(document: dict) -> int:
+    """How deep tables and arrays nest below the document (a top-level table or array is 1)."""
+    deepest = 0
+    stack = [(child, 1) for child in document.values()]
     while stack:
         item, depth = stack.pop()
         if isinstance(item, dict):
@@ -83,11 +84,11 @@ def _depth(value, level: int = 0) -> int:
             children = item
         else:
             continue
-        depth += 1
-        deepest = max(deepest, depth)
-        if deepest > MAX_TOML_DEPTH:
-            return deepest
-        stack.extend((child, depth) for child in children)
+        if depth > deepest:
+            deepest = depth
+            if deepest > MAX_TOML_DEPTH:
+                return deepest
+        stack.extend((child, depth + 1) for child in children)
     return deepest
 
 
@@ -107,7 +108,7 @@ def parse_toml(text: str, source: str) -> dict:
         data = tomllib.loads(text)
     except RecursionError:
         raise InputError(f"{source}: nested deeper than {MAX_TOML_DEPTH} levels of tables and arrays") from None
-    if _depth(data) - 1 > MAX_TOML_DEPTH:
+    if _depth(data) > MAX_TOML_DEPTH:
         raise InputError(f"{source}: nested deeper than {MAX_TOML_DEPTH} levels of tables and arrays")
     return data
 

@@ -31,6 +31,7 @@ from pathlib import Path
 from partpick.errors import InputError
 from partpick.inputs import bounded_list, read_input_bytes, read_stream_bytes
 from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, PART_FIELDS, FieldSpec
+from partpick.text import normalise_text
 from partpick.units import parse_quantity
 
 __all__ = [
@@ -201,7 +202,7 @@ def _parse_cell(spec: FieldSpec, cell: str):
         return parse_number(cell, spec)
     if spec.type == "points":
         return parse_points(cell)
-    text = unguard_text(cell)
+    text = normalise_text(unguard_text(cell))
     if spec.type == "choice" and text not in spec.choices:
         raise InputError(f"{text!r} is not allowed (allowed: {spec.range_text()})")
     return text if text != "" else None

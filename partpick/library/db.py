@@ -88,12 +88,17 @@ def sqlite_read_only(path: Path) -> bool:
 def sqlite_read_only_connect(path: Path, busy_timeout_s: float = DEFAULT_BUSY_TIMEOUT_S):
     """A read-only sqlite3 connection to ``path`` (URI ``mode=ro``), no journal-mode switch.
 
-    In a folder where SQLite cannot create the WAL index (``-shm``), the file
-    is opened ``immutable`` as well: nobody can write it there either.
+    A file that cannot be written, or one in a folder where SQLite cannot create
+    the WAL index (``-shm``), is opened ``immutable`` as well: nobody can write
+    it there either, and no side file is made.
     """
     folder_writable = os.access(path.parent, os.W_OK | os.X_OK)
+    file_writable = os.access(path, os.W_OK)
     shm = path.with_name(path.name + "-shm")
-    options = "mode=ro" if folder_writable or shm.exists() else "mode=ro&immutable=1"
+    # A file nobody may write (read-only file, immutable, read-only mount) cannot change under us:
+    # immutable reads need no WAL index, so no side file is made beside it.
+    immutable = not file_writable or not (folder_writable or shm.exists())
+    options = "mode=ro&immutable=1" if immutable else "mode=ro"
     uri = f"file:{urllib.parse.quote(str(path))}?{options}"
     return sqlite3.connect(uri, uri=True, timeout=busy_timeout_s, check_same_thread=False)
 
