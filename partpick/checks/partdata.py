@@ -14,7 +14,7 @@ from operator import itemgetter
 
 import numpy as np
 
-from partpick.library.fields import KINDS, kind_group
+from partpick.library.fields import KINDS, PART_FIELDS, kind_group
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.thermal import thermal_resistance_from_rating, power_rating_from_thermal_resistance
 
@@ -39,13 +39,11 @@ PART_DEFAULTS = {
     "ir_t_C": (25.0, 25.0),          # datasheets state IR max at 25 °C unless they say otherwise
 }
 
-# Fields the checker reads as numbers.
-NUMERIC_FIELDS = (
-    "vrrm_V", "if_avg_A", "if_ref_C", "ifsm_A", "ifsm_ms", "pd_W", "pd_ref_C", "tj_max_C", "rth_ja_K_per_W",
-    "is_A", "n", "rs_ohm", "rs_temp_exponent", "eg_eV", "is_temp_exponent", "vf_max_V", "vf_max_at_A",
-    "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V", "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm",
-    "vz_tc_pct_per_K", "price",
-)
+# Fields the checker reads as numbers: every numeric column of the part record.
+NUMERIC_FIELDS = tuple(spec.name for spec in PART_FIELDS if spec.type == "float")
+# Text fields the checker reads (choices it compares, names it reports).
+TEXT_FIELDS = ("part_number", "kind", "package", "lifecycle", "junction", "pd_ref_point", "if_ref_point",
+               "bidirectional", "ppp_waveform", "ppp2_waveform")
 _NUMERIC_GETTER = itemgetter(*NUMERIC_FIELDS)
 
 
@@ -59,21 +57,22 @@ class PartArrays:
     def __init__(self, parts: list[dict]):
         self.parts = list(parts)
         self.count = len(self.parts)
-        texts = itemgetter("part_number", "kind", "package", "lifecycle")
+        texts = itemgetter(*TEXT_FIELDS)
         try:
             rows = list(map(_NUMERIC_GETTER, self.parts))
             text_rows = list(map(texts, self.parts))
         except KeyError:  # records without every key (hand-made in tests and scripts)
             rows = [tuple(p.get(n) for n in NUMERIC_FIELDS) for p in self.parts]
-            text_rows = [tuple(p.get(n) for n in ("part_number", "kind", "package", "lifecycle")) for p in self.parts]
+            text_rows = [tuple(p.get(n) for n in TEXT_FIELDS) for p in self.parts]
         try:
             table = np.array(rows, dtype=float).reshape(self.count, len(NUMERIC_FIELDS))
         except (TypeError, ValueError) as exc:
             raise ValueError(f"a numeric part field holds a value that is not a number ({exc})") from None
         self.raw = {name: table[:, j] for j, name in enumerate(NUMERIC_FIELDS)}
-        columns = list(zip(*text_rows)) if text_rows else [(), (), (), ()]
+        columns = list(zip(*text_rows)) if text_rows else [()] * len(TEXT_FIELDS)
         # Object arrays: a subset is one fancy-indexing step, not a loop.
-        self.part_number, self.kind, self.package, self.lifecycle = (object_array(c) for c in columns)
+        for name, column in zip(TEXT_FIELDS, columns):
+            setattr(self, name, object_array(column))
         self._records = object_array(self.parts)
         self._finish()
 
@@ -81,7 +80,10 @@ class PartArrays:
         # Kinds outside KINDS are never candidates; they keep the pn code.
         self.group = np.full(self.count, GROUP_CODES["pn"], dtype=np.int8)
         for kind in KINDS:
-            self.group[self.kind == kind] = GROUP_CODES[kind_group(kind)]
+            # TVS parts have pulse-power limits of their own, not a diode group's.
+            self.group[self.kind == kind] = GROUP_CODES.get(kind_group(kind), GROUP_CODES["pn"])
+        bridge_schottky = (self.kind == "bridge") & (self.junction == "schottky")
+        self.group[bridge_schottky] = GROUP_CODES["schottky"]
         self.schottky = self.group == GROUP_CODES["schottky"]
 
     def subset(self, index) -> "PartArrays":
@@ -92,7 +94,7 @@ class PartArrays:
         new.parts = new._records.tolist()
         new.count = index.size
         new.raw = {name: arr[index] for name, arr in self.raw.items()}
-        for name in ("part_number", "kind", "package", "lifecycle"):
+        for name in TEXT_FIELDS:
             setattr(new, name, getattr(self, name)[index])
         new.group = self.group[index]
         new.schottky = self.schottky[index]

@@ -13,6 +13,7 @@ import re
 from dataclasses import dataclass
 
 from partpick.errors import InputError
+from partpick.library.fields import KINDS
 from partpick.gui.observer import Signal
 from partpick.units import format_quantity, parse_quantity
 
@@ -41,7 +42,7 @@ OBJECTIVES = {
 }
 RESISTOR_SERIES = ("E12", "E24", "E48", "E96")
 KIND_WORDS = {"rectifier": "Rectifier", "signal": "Signal", "schottky": "Schottky",
-              "fast_recovery": "Fast recovery", "zener": "Zener"}
+              "fast_recovery": "Fast recovery", "zener": "Zener", "bridge": "Bridge", "tvs": "TVS"}
 DEFAULT_POLICY = "commercial"  # SPEC §4: the window's new requirements start from it
 
 
@@ -112,7 +113,7 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
     ReqField("inrush_source_ohm", "Inrush source R", unit="Ω", group="Limits", roles=("series",),
              minimum=0.0, help="Source resistance during inrush."),
     ReqField("kinds", "Kinds", "list", group="Filters", help="Only these kinds, comma-separated (empty: all).",
-             choices=("rectifier", "signal", "schottky", "fast_recovery", "zener")),
+             choices=KINDS),
     ReqField("packages", "Packages", "list", group="Filters", help="Only these packages, comma-separated."),
     ReqField("lifecycle", "Lifecycle", "list", group="Filters", choices=("active", "nrnd", "obsolete"),
              help="Only these lifecycle states, comma-separated."),

@@ -20,19 +20,26 @@ __all__ = [
     "KINDS",
     "LIFECYCLES",
     "MODEL_SOURCES",
+    "REF_POINTS",
+    "JUNCTIONS",
+    "BOOLEANS",
     "FieldSpec",
     "PART_FIELDS",
     "FIELDS_BY_NAME",
     "FIELD_NAMES",
     "MODEL_FIELDS",
     "kind_group",
+    "parse_waveform",
     "validate_part",
     "part_problems",
     "empty_part",
     "columns_as_arrays",
 ]
 
-KINDS = ("rectifier", "signal", "schottky", "fast_recovery", "zener")
+KINDS = ("rectifier", "signal", "schottky", "fast_recovery", "zener", "bridge", "tvs")
+REF_POINTS = ("ambient", "lead", "case")
+JUNCTIONS = ("pn", "schottky")
+BOOLEANS = ("true", "false")
 LIFECYCLES = ("active", "nrnd", "obsolete")
 MODEL_SOURCES = ("entered", "fitted")
 
@@ -120,7 +127,8 @@ def _c(name, label, choices, help=""):
 # °C typed as K). Temperatures span the −65…250 °C of device ratings.
 PART_FIELDS: tuple[FieldSpec, ...] = (
     _t("part_number", "Part number", 64, "The part's unique number in this library."),
-    _c("kind", "Kind", KINDS, "Rectifier, signal, Schottky, fast-recovery or Zener diode."),
+    _c("kind", "Kind", KINDS,
+       "Rectifier, signal, Schottky, fast-recovery or Zener diode, a bridge (four legs) or a TVS."),
     _t("manufacturer", "Manufacturer", 128, "Who makes the part."),
     _t("package", "Package", 64, "The package name; substitutes are flagged same-package or not."),
     _t("datasheet", "Datasheet", 512, "A reference to the datasheet: file name, document number or link."),
@@ -148,12 +156,46 @@ PART_FIELDS: tuple[FieldSpec, ...] = (
        "Whether Is, n and Rs were entered from the datasheet or fitted to its VF points."),
     FieldSpec("vf_points", "points", "", "VF points", 0.0, 100e3, (),
               "Datasheet forward curve at 25 °C as IF:VF pairs in A and V, e.g. 0.1:0.72;1:0.93.", True),
+    _c("pd_ref_point", "Pd rated at", REF_POINTS,
+       "Where Pd's rating temperature is measured: ambient (default), lead or case."),
+    _c("if_ref_point", "IF(AV) rated at", REF_POINTS,
+       "Where IF(AV)'s rating temperature is measured: ambient (default), lead or case."),
+    _f("rth_jc_K_per_W", "K/W", "RthJC", 0.0, 10e3, "Junction-to-case thermal resistance (heatsink packages).",
+       True),
+    _f("rth_jl_K_per_W", "K/W", "RthJL", 0.0, 10e3, "Junction-to-lead (solder point) thermal resistance.", True),
+    _f("rth_ja_area_mm2", "mm²", "RthJA copper area", 0.0, 1e6,
+       "Copper area of the board on which the datasheet's RthJA was measured.", True),
+    _f("rth_ja_large_K_per_W", "K/W", "RthJA, large copper", 0.0, 10e3,
+       "Datasheet RthJA on the larger copper area rth_ja_large_area_mm2.", True),
+    _f("rth_ja_large_area_mm2", "mm²", "Large copper area", 0.0, 1e6,
+       "The larger copper area at which rth_ja_large_K_per_W is given.", True),
+    _f("tau_th_s", "s", "Thermal time constant", 0.0, 1e4,
+       "Junction thermal time constant for pulses: Zth(t) = RthJA·min(1, √(t/τ)).", True),
+    _f("ifrm_A", "A", "IFRM", 0.0, 100e3, "Repetitive peak forward current rating.", True),
+    _f("trr_s", "s", "trr", 0.0, 1e-3, "Reverse recovery time."),
+    _f("qrr_C", "C", "Qrr", 0.0, 1e-3, "Reverse recovery charge."),
+    _c("junction", "Junction", JUNCTIONS, "For a bridge: pn or Schottky legs (sets Eg, m and the policy limits)."),
+    _f("vwm_V", "V", "VWM", 0.0, 100e3, "TVS stand-off (working peak reverse) voltage.", True),
+    _f("vbr_min_V", "V", "VBR min", 0.0, 100e3, "TVS minimum breakdown voltage at it_A, 25 °C.", True),
+    _f("vbr_max_V", "V", "VBR max", 0.0, 100e3, "TVS maximum breakdown voltage at it_A, 25 °C.", True),
+    _f("it_A", "A", "IT", 0.0, 10.0, "TVS test current of the breakdown voltage.", True),
+    _f("vc_V", "V", "VC", 0.0, 100e3, "TVS maximum clamping voltage at ipp_A.", True),
+    _f("ipp_A", "A", "IPP", 0.0, 100e3, "TVS peak pulse current of the clamping voltage.", True),
+    _f("ppp_W", "W", "PPP", 0.0, 1e8, "TVS peak pulse power rating for ppp_waveform.", True),
+    _t("ppp_waveform", "PPP waveform", 32, "Pulse of the PPP rating as rise/decay in µs (default 10/1000)."),
+    _f("ppp2_W", "W", "PPP, second point", 0.0, 1e8, "TVS peak pulse power for a second waveform.", True),
+    _t("ppp2_waveform", "PPP2 waveform", 32, "Pulse of the second PPP rating as rise/decay in µs, e.g. 8/20."),
+    _c("bidirectional", "Bidirectional", BOOLEANS, "For a TVS: true when it clamps both polarities."),
+    _f("vbr_tc_pct_per_K", "%/K", "αVBR", -1.0, 1.0, "Temperature coefficient of the TVS breakdown voltage."),
     _f("vf_max_V", "V", "VF max", 0.0, 100.0, "Guaranteed maximum forward voltage at vf_max_at_A.", True),
     _f("vf_max_at_A", "A", "VF max at", 0.0, 100e3, "Current at which VF max is guaranteed.", True),
     _f("ir_A", "A", "IR max", 0.0, 1.0, "Maximum reverse current at ir_vr_V and ir_t_C.", True),
     _f("ir_vr_V", "V", "IR at VR", 0.0, 100e3, "Reverse voltage at which IR max is given.", True),
     _f("ir_t_C", "°C", "IR at Tj", -65.0, 250.0, "Junction temperature at which IR max is given."),
+    _f("ir_hot_A", "A", "IR max, hot", 0.0, 1.0, "Maximum reverse current at ir_vr_V and the hot ir_hot_t_C.", True),
+    _f("ir_hot_t_C", "°C", "IR hot at Tj", -65.0, 250.0, "Junction temperature of the hot IR max."),
     _f("ir_double_K", "K", "IR doubles every", 0.0, 100.0, "Temperature rise that doubles IR (default 10 K).", True),
+    _f("vrsm_V", "V", "VRSM", 0.0, 100e3, "Non-repetitive peak reverse voltage (for reverse transients).", True),
     _f("vz_V", "V", "Vz", 0.0, 1000.0, "Zener voltage at Izt, 25 °C.", True),
     _f("vz_tol_pct", "%", "Vz tolerance", 0.0, 50.0, "± tolerance of Vz in per cent.", True),
     _f("izt_A", "A", "Izt", 0.0, 100.0, "Zener test current.", True),
@@ -171,20 +213,45 @@ FIELD_NAMES: tuple[str, ...] = tuple(spec.name for spec in PART_FIELDS)
 _TEXT_FIELDS: tuple[str, ...] = tuple(spec.name for spec in PART_FIELDS if spec.type in ("text", "choice"))
 
 # Fields that must be given together (a value means little without its partner).
-_PAIRS = (("vf_max_V", "vf_max_at_A"), ("ir_A", "ir_vr_V"))
+_PAIRS = (("vf_max_V", "vf_max_at_A"), ("ir_A", "ir_vr_V"), ("ir_hot_A", "ir_hot_t_C"),
+          ("rth_ja_large_K_per_W", "rth_ja_large_area_mm2"), ("ppp2_W", "ppp2_waveform"))
+_TVS_REQUIRED = ("vwm_V", "vbr_min_V", "vbr_max_V", "it_A", "vc_V", "ipp_A", "ppp_W")
 _ZENER_REQUIRED = ("vz_V", "vz_tol_pct", "izt_A", "zzt_ohm")
 _DIODE_REQUIRED = ("vrrm_V", "if_avg_A")
 
 
-def kind_group(kind: str) -> str:
-    """The derating-policy group of a kind: ``"pn"``, ``"schottky"`` or ``"zener"``."""
+def kind_group(kind: str, junction: str | None = None) -> str:
+    """The derating-policy group of a kind: ``"pn"``, ``"schottky"``, ``"zener"`` or ``"tvs"``.
+
+    A bridge follows its legs' ``junction`` (``"pn"`` when not known).
+    """
     if kind == "zener":
         return "zener"
-    if kind == "schottky":
+    if kind == "schottky" or (kind == "bridge" and junction == "schottky"):
         return "schottky"
+    if kind == "tvs":
+        return "tvs"
     if kind in KINDS:
         return "pn"
     raise ValueError(f"kind: {kind!r} is not one of {', '.join(KINDS)}")
+
+
+def parse_waveform(text: str) -> tuple[float, float]:
+    """A pulse waveform ``"rise/decay"`` in µs (``"10/1000"``) as (rise, decay) in seconds.
+
+    Raises
+    ------
+    ValueError
+        The text is not two positive numbers separated by ``/``.
+    """
+    parts = text.split("/") if isinstance(text, str) else []
+    try:
+        rise, decay = (float(p) for p in parts)
+    except (TypeError, ValueError):
+        raise ValueError(f"waveform {text!r} is not rise/decay in µs (e.g. 10/1000)") from None
+    if not (math.isfinite(rise) and math.isfinite(decay) and 0 < rise < decay):
+        raise ValueError(f"waveform {text!r}: rise and decay must be finite, positive and rise < decay (µs)")
+    return rise * 1e-6, decay * 1e-6
 
 
 def empty_part() -> dict:
@@ -386,7 +453,22 @@ def part_problems(part: dict) -> list[tuple[str | None, str]]:
     problems.extend(text_field_problems(part, _TEXT_FIELDS, who))
     problems.extend(contradiction_problems(given, who))
 
-    if kind == "zener":
+    for name in ("ppp_waveform", "ppp2_waveform"):
+        if has(name):
+            try:
+                parse_waveform(given[name])
+            except ValueError as error:
+                problems.add(name, f"{who}: {name}: {error}")
+    for dependent, base in (("ir_hot_A", "ir_A"), ("rth_ja_area_mm2", "rth_ja_K_per_W")):
+        if has(dependent) and not has(base):
+            problems.add(dependent, f"{who}: {dependent} is given without {base} (it qualifies {base})")
+
+    if kind == "tvs":
+        for name in _TVS_REQUIRED:
+            if not has(name) and part.get(name) is None:
+                help_text = FIELDS_BY_NAME[name].help.rstrip(".")
+                problems.add(name, f"{who}: {name} is required for a TVS ({help_text})")
+    elif kind == "zener":
         for name in _ZENER_REQUIRED:
             if not has(name) and part.get(name) is None:
                 help_text = FIELDS_BY_NAME[name].help.rstrip(".")
@@ -395,6 +477,8 @@ def part_problems(part: dict) -> list[tuple[str | None, str]]:
                 and part.get("rth_ja_K_per_W") is None:
             problems.add("pd_W", f"{who}: a Zener needs pd_W or rth_ja_K_per_W (power or thermal data)")
     elif kind in KINDS:
+        if kind == "bridge" and not has("junction"):
+            problems.add("junction", f"{who}: junction is required for a bridge (pn or schottky legs)")
         for name in _DIODE_REQUIRED:
             if not has(name) and part.get(name) is None:
                 help_text = FIELDS_BY_NAME[name].help.rstrip(".")

@@ -37,6 +37,41 @@ SQLITE_MAGIC = b"SQLite format 3\x00"
 # MIGRATIONS[k] upgrades a library from schema k to k + 1.
 MIGRATIONS: dict[int, Callable] = {}
 
+# Schema 2 added these part columns (thermal path, bridge and TVS data, hot leakage, VRSM).
+_SCHEMA2_COLUMNS = (
+    "pd_ref_point", "if_ref_point", "rth_jc_K_per_W", "rth_jl_K_per_W", "rth_ja_area_mm2",
+    "rth_ja_large_K_per_W", "rth_ja_large_area_mm2", "tau_th_s", "ifrm_A", "trr_s", "qrr_C", "junction",
+    "vwm_V", "vbr_min_V", "vbr_max_V", "it_A", "vc_V", "ipp_A", "ppp_W", "ppp_waveform", "ppp2_W",
+    "ppp2_waveform", "bidirectional", "vbr_tc_pct_per_K", "ir_hot_A", "ir_hot_t_C", "vrsm_V",
+)
+_SCHEMA2_CHOICES = ("pd_ref_point", "if_ref_point", "junction", "bidirectional")
+
+
+def _add_schema2_columns(operations) -> None:
+    import sqlalchemy as sa
+
+    table = models.Part.__table__
+    # SQLite cannot add a CHECK constraint in place: batch mode rebuilds the table.
+    with operations.batch_alter_table("part") as batch:
+        for name in _SCHEMA2_COLUMNS:
+            batch.add_column(sa.Column(name, table.c[name].type, nullable=True))
+    # The new kinds (bridge, tvs) widen the kind constraint; the choice columns get theirs.
+    with operations.batch_alter_table("part") as batch:
+        batch.drop_constraint("ck_part_kind", type_="check")
+        batch.create_check_constraint("ck_part_kind", _constraint_text("kind"))
+        for name in _SCHEMA2_CHOICES:
+            batch.create_check_constraint(f"ck_part_{name}", _constraint_text(name))
+
+
+def _constraint_text(name: str) -> str:
+    for constraint in models.Part.__table__.constraints:
+        if getattr(constraint, "name", None) in (name, f"ck_part_{name}"):
+            return str(constraint.sqltext)
+    raise LookupError(name)
+
+
+MIGRATIONS[1] = _add_schema2_columns
+
 
 def _check_sqlite_file(path: Path, location: str) -> None:
     if path.is_dir():
@@ -137,15 +172,27 @@ def _migrate(engine: Engine, version: int) -> None:
     from alembic.migration import MigrationContext
     from alembic.operations import Operations
 
-    with engine.execution_options(partpick_write=True).begin() as connection:
-        operations = Operations(MigrationContext.configure(connection))
-        for step_from in range(version, models.SCHEMA_VERSION):
-            step = MIGRATIONS.get(step_from)
-            if step is None:
-                raise LibraryError(f"no migration from library schema {step_from} to {step_from + 1}")
-            step(operations)
-        table = models.SchemaVersion.__table__
-        connection.execute(update(table).values(version=models.SCHEMA_VERSION))
+    sqlite = engine.url.get_backend_name() == "sqlite"
+    with engine.execution_options(partpick_write=True).connect() as connection:
+        if sqlite:
+            # A batch step rebuilds a table (copy, drop, rename); with foreign keys on, dropping
+            # `part` would cascade-delete every VF point. The pragma works only outside a transaction.
+            connection.connection.dbapi_connection.execute("PRAGMA foreign_keys = OFF")
+        try:
+            with connection.begin():
+                operations = Operations(MigrationContext.configure(connection))
+                for step_from in range(version, models.SCHEMA_VERSION):
+                    step = MIGRATIONS.get(step_from)
+                    if step is None:
+                        raise LibraryError(f"no migration from library schema {step_from} to {step_from + 1}")
+                    step(operations)
+                if sqlite and connection.exec_driver_sql("PRAGMA foreign_key_check").first() is not None:
+                    raise LibraryError("a migration step left VF points without their part")
+                table = models.SchemaVersion.__table__
+                connection.execute(update(table).values(version=models.SCHEMA_VERSION))
+        finally:
+            if sqlite:
+                connection.connection.dbapi_connection.execute("PRAGMA foreign_keys = ON")
 
 
 def prepare_database(url: URL, location: str, engine: Engine, *, create: bool, read_only: bool = False) -> str | None:

@@ -13,13 +13,13 @@ from sqlalchemy import CheckConstraint, Double, ForeignKey, Integer, String, Tex
 from sqlalchemy.orm import Mapped, mapped_column, relationship
 
 from partpick.library.db import Base
-from partpick.library.fields import FIELDS_BY_NAME, KINDS, LIFECYCLES, MODEL_SOURCES
+from partpick.library.fields import BOOLEANS, FIELDS_BY_NAME, JUNCTIONS, KINDS, LIFECYCLES, MODEL_SOURCES, REF_POINTS
 
 __all__ = ["SCHEMA_VERSION", "APPLICATION", "Part", "VfPoint", "Policy", "SchemaVersion", "PART_COLUMNS"]
 
 # The schema this partpick writes. Raise it with every change to the tables
 # and add the step to partpick.library.migrate.MIGRATIONS.
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 APPLICATION = "partpick"
 
 
@@ -40,6 +40,10 @@ class Part(Base):
         CheckConstraint(_in("kind", KINDS), name="kind"),
         CheckConstraint(_in("model_source", MODEL_SOURCES), name="model_source"),
         CheckConstraint(_in("lifecycle", LIFECYCLES), name="lifecycle"),
+        CheckConstraint(_in("pd_ref_point", REF_POINTS), name="pd_ref_point"),
+        CheckConstraint(_in("if_ref_point", REF_POINTS), name="if_ref_point"),
+        CheckConstraint(_in("junction", JUNCTIONS), name="junction"),
+        CheckConstraint(_in("bidirectional", BOOLEANS), name="bidirectional"),
     )
 
     id: Mapped[int] = mapped_column(Integer, primary_key=True)
@@ -66,12 +70,39 @@ class Part(Base):
     model_source: Mapped[Optional[str]] = mapped_column(String(_text("model_source")))
     # Largest |model − point| of the fit in mV; None for entered models.
     fit_residual_mV: Mapped[Optional[float]] = mapped_column(Double)
+    pd_ref_point: Mapped[Optional[str]] = mapped_column(String(_text("pd_ref_point")))
+    if_ref_point: Mapped[Optional[str]] = mapped_column(String(_text("if_ref_point")))
+    rth_jc_K_per_W: Mapped[Optional[float]] = mapped_column(Double)
+    rth_jl_K_per_W: Mapped[Optional[float]] = mapped_column(Double)
+    rth_ja_area_mm2: Mapped[Optional[float]] = mapped_column(Double)
+    rth_ja_large_K_per_W: Mapped[Optional[float]] = mapped_column(Double)
+    rth_ja_large_area_mm2: Mapped[Optional[float]] = mapped_column(Double)
+    tau_th_s: Mapped[Optional[float]] = mapped_column(Double)
+    ifrm_A: Mapped[Optional[float]] = mapped_column(Double)
+    trr_s: Mapped[Optional[float]] = mapped_column(Double)
+    qrr_C: Mapped[Optional[float]] = mapped_column(Double)
+    junction: Mapped[Optional[str]] = mapped_column(String(_text("junction")))
+    vwm_V: Mapped[Optional[float]] = mapped_column(Double)
+    vbr_min_V: Mapped[Optional[float]] = mapped_column(Double)
+    vbr_max_V: Mapped[Optional[float]] = mapped_column(Double)
+    it_A: Mapped[Optional[float]] = mapped_column(Double)
+    vc_V: Mapped[Optional[float]] = mapped_column(Double)
+    ipp_A: Mapped[Optional[float]] = mapped_column(Double)
+    ppp_W: Mapped[Optional[float]] = mapped_column(Double)
+    ppp_waveform: Mapped[Optional[str]] = mapped_column(String(_text("ppp_waveform")))
+    ppp2_W: Mapped[Optional[float]] = mapped_column(Double)
+    ppp2_waveform: Mapped[Optional[str]] = mapped_column(String(_text("ppp2_waveform")))
+    bidirectional: Mapped[Optional[str]] = mapped_column(String(_text("bidirectional")))
+    vbr_tc_pct_per_K: Mapped[Optional[float]] = mapped_column(Double)
     vf_max_V: Mapped[Optional[float]] = mapped_column(Double)
     vf_max_at_A: Mapped[Optional[float]] = mapped_column(Double)
     ir_A: Mapped[Optional[float]] = mapped_column(Double)
     ir_vr_V: Mapped[Optional[float]] = mapped_column(Double)
     ir_t_C: Mapped[Optional[float]] = mapped_column(Double)
+    ir_hot_A: Mapped[Optional[float]] = mapped_column(Double)
+    ir_hot_t_C: Mapped[Optional[float]] = mapped_column(Double)
     ir_double_K: Mapped[Optional[float]] = mapped_column(Double)
+    vrsm_V: Mapped[Optional[float]] = mapped_column(Double)
     vz_V: Mapped[Optional[float]] = mapped_column(Double)
     vz_tol_pct: Mapped[Optional[float]] = mapped_column(Double)
     izt_A: Mapped[Optional[float]] = mapped_column(Double)

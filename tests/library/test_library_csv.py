@@ -324,7 +324,9 @@ def test_random_parts_round_trip_exactly(tmp_path):
         part.update(vrrm_V=rng.uniform(1, 1000), if_avg_A=rng.uniform(0.1, 10), is_A=10 ** rng.uniform(-15, -3),
                     n=rng.uniform(1, 4), rs_ohm=rng.uniform(0, 1), tj_max_C=rng.uniform(100, 250),
                     model_source="entered", vf_max_V=None, vf_max_at_A=None, ir_A=None, ir_vr_V=None,
-                    izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None)
+                    izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None,
+                    ir_hot_A=None, ir_hot_t_C=None, rth_ja_area_mm2=None, rth_ja_large_K_per_W=None,
+                    rth_ja_large_area_mm2=None, ppp2_W=None)
         for name in ("manufacturer", "package", "datasheet", "notes"):
             part[name] = text(64, breaks=name == "notes")
         parts.append(part)

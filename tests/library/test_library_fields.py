@@ -19,8 +19,11 @@ from partpick.library.fields import (
 SPEC_COLUMNS = (
     "part_number kind manufacturer package datasheet vrrm_V if_avg_A if_ref_C ifsm_A ifsm_ms pd_W "
     "pd_ref_C tj_max_C rth_ja_K_per_W is_A n rs_ohm rs_temp_exponent eg_eV is_temp_exponent model_source "
-    "vf_points vf_max_V vf_max_at_A ir_A ir_vr_V ir_t_C ir_double_K vz_V vz_tol_pct izt_A zzt_ohm izk_A "
-    "zzk_ohm vz_tc_pct_per_K price lifecycle notes"
+    "vf_points pd_ref_point if_ref_point rth_jc_K_per_W rth_jl_K_per_W rth_ja_area_mm2 rth_ja_large_K_per_W "
+    "rth_ja_large_area_mm2 tau_th_s ifrm_A trr_s qrr_C junction vwm_V vbr_min_V vbr_max_V it_A vc_V ipp_A "
+    "ppp_W ppp_waveform ppp2_W ppp2_waveform bidirectional vbr_tc_pct_per_K "
+    "vf_max_V vf_max_at_A ir_A ir_vr_V ir_t_C ir_hot_A ir_hot_t_C ir_double_K vrsm_V vz_V vz_tol_pct izt_A "
+    "zzt_ohm izk_A zzk_ohm vz_tc_pct_per_K price lifecycle notes"
 ).split()
 
 
@@ -39,7 +42,9 @@ def test_unit_in_column_name_matches_display_unit():
                    "_pct": "%", "_K": "K", "_pct_per_K": "%/K"}
     for spec in PART_FIELDS:
         suffixes = [suffix for suffix in suffix_unit if spec.name.endswith(suffix)]
-        if spec.type == "float" and suffixes:
+        if spec.name == "qrr_C":  # SPEC §5: recovery charge in coulombs, not °C
+            assert spec.unit == "C"
+        elif spec.type == "float" and suffixes:
             longest = max(suffixes, key=len)  # _K_per_W over _W, _pct_per_K over _K
             assert spec.unit == suffix_unit[longest], spec.name
 
@@ -51,7 +56,8 @@ def test_fields_module_does_not_load_sqlalchemy():
 
 
 def test_kind_groups():
-    assert [kind_group(k) for k in KINDS] == ["pn", "pn", "schottky", "pn", "zener"]
+    assert [kind_group(k) for k in KINDS] == ["pn", "pn", "schottky", "pn", "zener", "pn", "tvs"]
+    assert kind_group("bridge", "schottky") == "schottky"  # a bridge follows its legs' junction
     with pytest.raises(ValueError, match="'tunnel' is not one of"):
         kind_group("tunnel")
 

@@ -7,6 +7,7 @@ import subprocess
 import sys
 import textwrap
 import time
+from pathlib import Path
 
 import pytest
 
@@ -263,3 +264,29 @@ def test_first_run_copies_the_bundled_example(tmp_path, monkeypatch):
         count = len(library.list_parts())
     with open_library(None) as library:
         assert len(library.list_parts()) == count
+
+
+def test_schema1_library_gains_the_schema2_columns(tmp_path):
+    # tests/library/data/schema1.sqlite was written by partpick at schema 1 (five example parts).
+    import shutil
+
+    path = tmp_path / "team.sqlite"
+    shutil.copyfile(Path(__file__).parent / "data" / "schema1.sqlite", path)
+    with open_library(path) as migrated:
+        assert migrated.note.startswith("migrated library from schema 1 to 2")
+        parts = {p["part_number"]: p for p in migrated.list_parts()}
+        assert len(parts) == 5
+        assert parts["QFS-101"]["vrsm_V"] is None and parts["QFS-101"]["junction"] is None
+        assert parts["QFS-101"]["vrrm_V"] > 0
+        assert all(parts[number]["vf_points"] for number in ("QFS-101", "MGR1A-0050"))  # rebuilt table kept them
+        # the widened kind constraint takes the new kinds, the new choice columns are constrained
+        bridge = dict(migrated.get_part("QFS-101"), part_number="TST-BR1", kind="bridge", junction="pn")
+        migrated.save_part(bridge)
+        assert migrated.get_part("TST-BR1")["junction"] == "pn"
+    connection = sqlite3.connect(path)
+    try:
+        assert connection.execute("SELECT version FROM schema_version").fetchone() == (2,)
+        with pytest.raises(sqlite3.IntegrityError):
+            connection.execute("UPDATE part SET junction = 'germanium' WHERE part_number = 'TST-BR1'")
+    finally:
+        connection.close()
