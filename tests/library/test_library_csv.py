@@ -327,6 +327,13 @@ def test_random_parts_round_trip_exactly(tmp_path):
                     izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None,
                     ir_hot_A=None, ir_hot_t_C=None, rth_ja_area_mm2=None, rth_ja_large_K_per_W=None,
                     rth_ja_large_area_mm2=None, ppp2_W=None)
+        # Values SPEC §5 orders (VRRM ≤ VRSM, VWM < VBR min ≤ VBR max, the parts of the thermal path
+        # below RthJA): the drawn values are put in that order rather than left to refusal.
+        for chain in (("vrrm_V", "vrsm_V"), ("vwm_V", "vbr_min_V", "vbr_max_V"),
+                      ("rth_jc_K_per_W", "rth_jl_K_per_W", "rth_ja_K_per_W")):
+            present = [name for name in chain if part.get(name) is not None]
+            for name, value in zip(present, sorted(part[name] for name in present)):
+                part[name] = value
         for name in ("manufacturer", "package", "datasheet", "notes"):
             part[name] = text(64, breaks=name == "notes")
         parts.append(part)

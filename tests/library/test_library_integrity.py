@@ -286,6 +286,38 @@ def test_diode_contradictions_are_refused(rectifier, changes, field, words):
     assert any(name == field and words in message for name, message in problems), problems
 
 
+@pytest.mark.parametrize("changes, field, words", [
+    ({"vrsm_V": 300.0}, "vrsm_V", "below vrrm_V"),  # the rectifier's VRRM is 400 V
+    ({"ir_A": 1e-6, "ir_vr_V": 400.0, "ir_t_C": 25.0, "ir_hot_A": 5e-7, "ir_hot_t_C": 125.0}, "ir_hot_A",
+     "not above ir_A"),
+    ({"ir_A": 1e-6, "ir_vr_V": 400.0, "ir_t_C": 100.0, "ir_hot_A": 5e-5, "ir_hot_t_C": 100.0}, "ir_hot_t_C",
+     "not above ir_t_C"),
+    ({"rth_ja_K_per_W": 80.0, "rth_ja_area_mm2": 100.0, "rth_ja_large_K_per_W": 60.0,
+      "rth_ja_large_area_mm2": 50.0}, "rth_ja_large_area_mm2", "not above rth_ja_area_mm2"),
+    ({"rth_ja_K_per_W": 80.0, "rth_ja_area_mm2": 25.0, "rth_ja_large_K_per_W": 95.0,
+      "rth_ja_large_area_mm2": 600.0}, "rth_ja_large_K_per_W", "more copper never raises RthJA"),
+    ({"rth_ja_K_per_W": 80.0, "rth_jc_K_per_W": 80.0}, "rth_jc_K_per_W", "not below rth_ja_K_per_W"),
+    ({"rth_ja_K_per_W": 80.0, "rth_jl_K_per_W": 120.0}, "rth_jl_K_per_W", "not below rth_ja_K_per_W"),
+])
+def test_contradictions_of_the_schema_2_columns_are_refused(rectifier, changes, field, words):
+    problems = part_problems(rectifier(**changes))
+    assert any(name == field and words in message for name, message in problems), problems
+
+
+@pytest.mark.parametrize("changes, field, words", [
+    ({"vbr_min_V": 7.5, "vbr_max_V": 7.0}, "vbr_min_V", "above vbr_max_V"),
+    ({"vwm_V": 6.8}, "vwm_V", "not below vbr_min_V"),
+])
+def test_tvs_contradictions_are_refused(changes, field, words):
+    # An invented 5 V stand-off TVS (values of the trade's usual ordering VWM < VBR min ≤ VBR max < VC).
+    tvs = {"part_number": "TVS-1", "kind": "tvs", "vwm_V": 5.0, "vbr_min_V": 6.4, "vbr_max_V": 7.0, "it_A": 10e-3,
+           "vc_V": 9.2, "ipp_A": 43.0, "ppp_W": 400.0, "tj_max_C": 150.0, "vrrm_V": 5.0, "if_avg_A": 1.0,
+           "is_A": 1e-12, "n": 1.5, "rs_ohm": 0.1}
+    assert [p for p in part_problems(tvs) if p[0] in ("vbr_min_V", "vwm_V")] == []
+    problems = part_problems({**tvs, **changes})
+    assert any(name == field and words in message for name, message in problems), problems
+
+
 def test_the_vf_max_rule_against_an_independent_typical_value(rectifier):
     # Independent value: the Shockley equation with Rs evaluated by hand above (≈ 1.018 V at 1 A).
     import math
