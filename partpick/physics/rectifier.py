@@ -207,10 +207,17 @@ class _Circuit:
             first_i = None
             samples = [] if record else None
         vc = vc.copy()
+        # the source by rotation: (sin, cos) of θ0 + k·dθ from the previous step's, no sin per step
+        # (re-anchored every 64 steps so that rounding cannot build up)
+        cos_d, sin_d = np.cos(dtheta), np.sin(dtheta)
         for k in range(1, steps + 1):
-            theta = theta0 + k * dtheta
-            np.sin(theta, out=e)
-            e *= self.e_peak
+            if (k - 1) % 64 == 0:
+                theta = theta0 + (k - 1) * dtheta
+                sn, cs = np.sin(theta), np.cos(theta)
+            sn, cs = sn * cos_d + cs * sin_d, cs * cos_d - sn * sin_d
+            if heavy:
+                theta = theta0 + k * dtheta
+            np.multiply(sn, self.e_peak, out=e)
             if self.full_wave:
                 np.abs(e, out=e)
             np.subtract(e, vc, out=z)
@@ -424,7 +431,8 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
         for steps in np.unique(level):
             idx = np.flatnonzero(level == steps)
             sub = circuit.subset(idx)
-            v, res = _newton(sub, v0[idx], theta0[idx], theta1[idx], int(steps))
+            # one Newton step from the neighbour's V0 (its error is of the order of the step squared)
+            v, res = _newton(sub, v0[idx], theta0[idx], theta1[idx], int(steps), tolerance=1e-3)
             res = sub.run(v, theta0[idx], theta1[idx], int(steps), heavy=True, record=record,
                           threshold=_CONDUCTION_SHARE * res["peak"])
             v0[idx] = v
