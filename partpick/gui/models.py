@@ -162,6 +162,8 @@ def _role_group_fields() -> tuple[ReqField, ...]:
 
 ROLE_GROUPS = {role.name: role.form_group().title for role in _REGISTRY.values() if role.table is not None}
 """Role → the title of its own group in the form."""
+ROLE_CAUTIONS = {role.name: role.cautions for role in _REGISTRY.values() if role.cautions}
+"""Role → the cautions it adds (shown in its form group; SPEC §7)."""
 REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + _role_group_fields()
 FIELDS_BY_KEY = {f.key: f for f in REQUIREMENT_FIELDS}
 ROLE_TABLES = {f.table for f in REQUIREMENT_FIELDS if f.table and f.table != "zener"}

@@ -13,7 +13,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from partpick.gui.models import OBJECTIVES, REQUIREMENT_FIELDS, ROLE_GROUPS, ROLES, RequirementModel
+from partpick.gui.models import OBJECTIVES, REQUIREMENT_FIELDS, ROLE_CAUTIONS, ROLE_GROUPS, ROLES, RequirementModel
 from partpick.gui.widgets import ERROR_COLOR, FieldEdit
 
 __all__ = ["RequirementView"]
@@ -55,6 +55,15 @@ class RequirementView(QScrollArea):
             form = QFormLayout(box)
             form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
             self.groups[group] = box
+            for caution in ROLE_CAUTIONS.get(group, ()):  # a role's own caution heads its group (e.g. mains)
+                # the first sentence on the form (a wrapped form row does not grow), the whole on hover
+                note = QLabel(caution.split(": ")[0].rstrip(".") + " — hover for the caution.", box)
+                note.setToolTip(caution)
+                note.setWordWrap(True)
+                note.setMinimumHeight(2 * note.fontMetrics().lineSpacing() + 4)
+                note.setObjectName(f"caution_{group}")
+                note.setStyleSheet(f"color: {ERROR_COLOR.name()};")
+                form.addRow(note)
             for spec in (f for f in REQUIREMENT_FIELDS if f.group == group):
                 widget = self._make_editor(spec, box)
                 self.editors[spec.key] = widget

@@ -25,7 +25,7 @@ from partpick.physics.rectifier import rectifier_operating_point
 
 __all__ = ["ac_rectifier_curves", "worst_corner"]
 
-_THERMAL_POINTS = 25  # each point is a periodic steady state: fewer than the other roles' curves
+_THERMAL_POINTS = 21  # each point is a periodic steady state: fewer than the other roles' curves
 
 
 def worst_corner(req: dict, candidate: dict) -> dict:
@@ -56,10 +56,15 @@ def ac_rectifier_curves(req: dict, part: dict, candidate: dict, notes: list[str]
     per_package = 4.0 if part.get("kind") == "bridge" else 1.0
     corner = worst_corner(req, candidate)
     f = float(ac["frequency_Hz"])
-    point = rectifier_operating_point(
+    # One vectorised solve: element 0 the worst corner, then the ambient sweep of the Tj and power curves
+    # at the worst corner's AC voltage, load and capacitance (each call costs its steps, not its elements).
+    amb_c = np.linspace(float(req["ambient_min_C"]) - AMBIENT_EXTENSION_K,
+                        float(req["ambient_max_C"]) + AMBIENT_EXTENSION_K, _THERMAL_POINTS)
+    ambients = celsius_to_kelvin(np.concatenate([[corner["ambient_C"]], amb_c]))
+    solved = rectifier_operating_point(
         topology, corner["vac_Vrms"], f, float(ac["source_ohm"]), corner["capacitance_F"], corner["load_A"], model,
-        celsius_to_kelvin(corner["ambient_C"]), rth, per_package,
-        leakage_rated_voltage=number(part, "ir_vr_V", 1.0), record=True)
+        ambients, rth, per_package, leakage_rated_voltage=number(part, "ir_vr_V", 1.0), record=True)
+    point = _element(solved, 0)
     wave = point.cycle.waveform
     pn = part.get("part_number", "")
     where = " · ".join(x for x in (format_engineering(corner["vac_Vrms"], "V") + " rms",
@@ -69,12 +74,7 @@ def ac_rectifier_curves(req: dict, part: dict, candidate: dict, notes: list[str]
         out["ac_cycle"], out["ac_current"] = _cycle_sections(pn, topology, wave, f, point, corner, where, ac)
     out["forward"] = _forward_section(pn, model, point, corner, req, where, part)
 
-    # Tj and power against ambient at the worst corner's AC voltage, load and capacitance.
-    amb_c = np.linspace(float(req["ambient_min_C"]) - AMBIENT_EXTENSION_K,
-                        float(req["ambient_max_C"]) + AMBIENT_EXTENSION_K, _THERMAL_POINTS)
-    sweep = rectifier_operating_point(
-        topology, corner["vac_Vrms"], f, float(ac["source_ohm"]), corner["capacitance_F"], corner["load_A"], model,
-        celsius_to_kelvin(amb_c), rth, per_package, leakage_rated_voltage=number(part, "ir_vr_V", 1.0))
+    sweep = _element(solved, slice(1, None))
     tj = np.where(sweep.runaway, np.nan, kelvin_to_celsius(sweep.junction_temperature))
     label = f"{'package' if per_package > 1 else 'diode'}, steady ({where.split(' · ')[0]}, " \
             f"{format_engineering(corner['load_A'], 'A')}, {format_engineering(corner['capacitance_F'], 'F')})"
@@ -83,6 +83,24 @@ def ac_rectifier_curves(req: dict, part: dict, candidate: dict, notes: list[str]
         part, candidate, "power", amb_c, tj_curves, np.where(sweep.runaway, np.nan, sweep.package_power), rth,
         tj_max, pd, pd_ref, f"cycle-average power of the {label}", req)
     return out
+
+
+def _element(point, index):
+    """One element (or a slice) of a `RectifierPoint` solved over a 1-D array."""
+    from dataclasses import fields, replace
+
+    cycle = point.cycle
+    take = lambda x: x[index] if isinstance(x, np.ndarray) and x.ndim else x  # noqa: E731
+    values = {f.name: take(getattr(cycle, f.name)) for f in fields(cycle)
+              if f.name not in ("power_moments", "window", "waveform")}
+    values["power_moments"] = tuple(take(m) for m in cycle.power_moments)
+    values["window"] = tuple(take(w) for w in cycle.window)
+    wave = cycle.waveform
+    values["waveform"] = None if wave is None else {k: (v[index] if isinstance(v, np.ndarray) else v)
+                                                    for k, v in wave.items()}
+    return replace(point, cycle=replace(cycle, **values), junction_temperature=take(point.junction_temperature),
+                   diode_power=take(point.diode_power), package_power=take(point.package_power),
+                   runaway=take(point.runaway))
 
 
 def _cycle_sections(pn, topology, wave, f, point, corner, where, ac):
