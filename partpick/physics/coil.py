@@ -13,7 +13,8 @@ quadratures over the current, not from stepping in time: with s = ln i,
 dt = −L·i·ds/F(i), F(i) = R·i + Vf(i) + Vz, and
 
     t(i_a → i_b) = ∫ L·i/F(i) ds,  E_diode = ∫ L·i²·Vf(i)/F(i) ds,
-    E_zener = ∫ L·i²·Vz/F(i) ds,   E_coil = ∫ L·i³·R/F(i) ds,  ∫i²dt = ∫ L·i³/F(i) ds
+    E_zener = ∫ L·i²·Vz/F(i) ds,   E_coil = ∫ L·i³·R/F(i) ds,  ∫i²dt = ∫ L·i³/F(i) ds,
+    ∫i dt = ∫ L·i²/F(i) ds
 
 over s from ln i_b to ln i_a (Gauss–Legendre, vectorised over every element of
 the inputs). The three energies add up to ½·L·(i_a² − i_b²): the energy stored
@@ -161,6 +162,8 @@ class DecayResult:
         Energy dissipated in the diode, the Zener and the winding resistance [J].
     current_squared_time : ndarray
         ∫ i² dt [A²·s] (the diode's I²t).
+    charge : ndarray
+        ∫ i dt [C] (the charge through the diode; times the frequency, its average current).
     """
 
     time: np.ndarray
@@ -168,6 +171,7 @@ class DecayResult:
     zener_energy: np.ndarray
     coil_energy: np.ndarray
     current_squared_time: np.ndarray
+    charge: np.ndarray
 
 
 def _quadrature(inductance, resistance, drop, zener, s_low, s_high, with_energy=True):
@@ -184,9 +188,10 @@ def _quadrature(inductance, resistance, drop, zener, s_low, s_high, with_energy=
     time = np.sum(w * g, axis=-1)
     if not with_energy:
         return time
-    wg = w * g * i                                        # L·i²/F·w
-    return DecayResult(time, np.sum(wg * vf, axis=-1), np.sum(wg, axis=-1) * zener,
-                       np.sum(wg * i, axis=-1) * resistance, np.sum(wg * i, axis=-1))
+    wg = w * g * i                                        # L·i²/F·w: i·dt
+    charge = np.sum(wg, axis=-1)
+    i2t = np.sum(wg * i, axis=-1)
+    return DecayResult(time, np.sum(wg * vf, axis=-1), charge * zener, i2t * resistance, i2t, charge)
 
 
 def _rate(inductance, resistance, drop, zener, current):
@@ -238,7 +243,7 @@ def coil_decay(inductance, resistance, drop, i_start, i_end=0.0, zener_voltage=0
     if all(np.ndim(x) == 0 for x in (inductance, resistance, i_start, i_end, zener_voltage)) \
             and np.ndim(np.asarray(drop(np.float64(1.0)))) == 0:
         return DecayResult(*(float(v) for v in (result.time, result.diode_energy, result.zener_energy,
-                                                result.coil_energy, result.current_squared_time)))
+                                                result.coil_energy, result.current_squared_time, result.charge)))
     return result
 
 
@@ -364,7 +369,7 @@ def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_
     decay = _quadrature(L, R, flat_drop.expanded(), Vz, s_low, s_high)
     back = lambda a: a.reshape(shape)  # noqa: E731
     decay = DecayResult(*(back(v) for v in (decay.time, decay.diode_energy, decay.zener_energy, decay.coil_energy,
-                                            decay.current_squared_time)))
+                                            decay.current_squared_time, decay.charge)))
     return PeriodicState(back(peak_current), back(valley), decay, back(decays_fully))
 
 

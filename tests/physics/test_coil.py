@@ -32,12 +32,12 @@ def _reference_decay(L, R, drop, I0, i_end, zener=0.0):
     def rhs(t, y):
         i = max(y[0], 0.0)
         vf = float(drop(i))
-        return [-(R * i + vf + zener) / L, vf * i, zener * i, R * i * i, i * i]
+        return [-(R * i + vf + zener) / L, vf * i, zener * i, R * i * i, i * i, i]
 
     stop = lambda t, y: y[0] - i_end  # noqa: E731
     stop.terminal = True
-    sol = solve_ivp(rhs, [0.0, 100 * L / R], [I0, 0, 0, 0, 0], method="Radau", rtol=1e-10,
-                    atol=[I0 * 1e-12, 1e-16, 1e-16, 1e-16, 1e-16], events=stop)
+    sol = solve_ivp(rhs, [0.0, 100 * L / R], [I0, 0, 0, 0, 0, 0], method="Radau", rtol=1e-10,
+                    atol=[I0 * 1e-12, 1e-16, 1e-16, 1e-16, 1e-16, 1e-16], events=stop)
     assert sol.status == 1, sol.message
     t = sol.t_events[0][0]
     return t, sol.y_events[0][0]
@@ -72,6 +72,7 @@ def test_real_curve_matches_solve_ivp(zener, I0, Id):
     assert result.diode_energy == pytest.approx(y[1], rel=5e-3)
     assert result.coil_energy == pytest.approx(y[3], rel=5e-3)
     assert result.current_squared_time == pytest.approx(y[4], rel=5e-3)
+    assert result.charge == pytest.approx(y[5], rel=5e-3)
     if zener:
         assert result.zener_energy == pytest.approx(y[2], rel=5e-3)
     # What the coil gave up, ½·L·(I0² − Id²), left through diode, Zener and winding (0.5 %).
