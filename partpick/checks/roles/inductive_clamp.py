@@ -23,6 +23,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.role_table import RoleTable, TableKey
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
 from partpick.checks.roles.base import Role, RoleResult
 from partpick.checks.roles.series import forward_model_of
@@ -30,7 +31,7 @@ from partpick.physics.coil import DiodeDrop, coil_decay, coil_resistance, period
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.thermal import allowed_power, derated_current
 
-__all__ = ["InductiveClampRole", "ROLE", "CoilTable", "COIL_DEFAULTS"]
+__all__ = ["InductiveClampRole", "ROLE", "COIL_TABLE", "RECOVERY_SHARE"]
 
 _ENDS = ("low", "high")
 _MODEL_FIELDS = ("is_A", "n", "rs_ohm")
@@ -39,46 +40,50 @@ RECOVERY_SHARE = 0.05
 # The event's duration for its mean power: the decay to 1 % of I0 (less than 1e-4 of the energy is left).
 _EVENT_END = 0.01
 
-COIL_DEFAULTS = {
-    "resistance_tol_pct": 10.0,
-    "switch_limit_pct": 80.0,
-    "switching_hz": 0.0,
-    "duty_pct": None,
-    "dropout_A": None,
-    "max_release_s": None,
-    "clamp": "diode",
-    "zener_V": None,
-    "zener_tol_pct": 5.0,
-    "zener_pd_W": None,
+_NOT_USED = {
+    "load_min_A": "a coil clamp has no load current: the coil current comes from the supply and the winding ([coil])",
+    "load_max_A": "a coil clamp has no load current: the coil current comes from the supply and the winding ([coil])",
+    "reverse_V": "the clamp diode blocks the supply while the switch is on: its reverse voltage is supply_max_V",
+    "reverse_transient_V": "the clamp diode blocks the supply: its reverse voltage is supply_max_V",
+    "handover": "the clamp diode blocks the supply while the switch is on (no hand-over)",
+    "max_forward_drop_V": "the clamp's drop sets the switch voltage: use [coil] switch_max_V and switch_limit_pct",
+    "min_output_V": "a coil clamp has no output",
+    "max_leakage_A": "a coil clamp has no leakage check",
+    "inrush_capacitance_F": "a coil clamp has no inrush check: the turn-off current is checked against IFSM",
+    "inrush_source_ohm": "a coil clamp has no inrush check: the turn-off current is checked against IFSM",
+    "resistor_power_derating_pct": "a coil clamp has no resistor",
+    "resistor_power_limit_pct": "a coil clamp has no resistor",
 }
-COIL_REQUIRED = ("inductance_H", "resistance_ohm", "switch_max_V")
 
-
-@dataclass(frozen=True)
-class CoilTable:
-    """The ``[coil]`` table (SI units, % as written)."""
-
-    inductance_H: float
-    resistance_ohm: float
-    switch_max_V: float
-    resistance_tol_pct: float = COIL_DEFAULTS["resistance_tol_pct"]
-    switch_limit_pct: float = COIL_DEFAULTS["switch_limit_pct"]
-    switching_hz: float = COIL_DEFAULTS["switching_hz"]
-    duty_pct: float | None = None
-    dropout_A: float | None = None
-    max_release_s: float | None = None
-    clamp: str = COIL_DEFAULTS["clamp"]
-    zener_V: float | None = None
-    zener_tol_pct: float = COIL_DEFAULTS["zener_tol_pct"]
-    zener_pd_W: float | None = None
-
-    @property
-    def repetitive(self) -> bool:
-        return self.switching_hz > 0
-
-    @property
-    def with_zener(self) -> bool:
-        return self.clamp == "diode_zener"
+COIL_TABLE = RoleTable("coil", "Coil clamp", (
+    TableKey("inductance_H", "H", "Coil inductance", "The coil's inductance L.", required=True, low=0.0,
+             low_inclusive=False, high=1e3),
+    TableKey("resistance_ohm", "Ω", "Winding resistance (20 °C)", "The winding's resistance at 20 °C; copper "
+             "R(Ta) = R20·(1 + 0.00393·(Ta − 20 °C)) (common practice).", required=True, low=0.0,
+             low_inclusive=False, high=1e6),
+    TableKey("resistance_tol_pct", "%", "Winding tolerance", "± tolerance of the winding resistance; the low end "
+             "gives the largest current.", default=10.0, high=50.0),
+    TableKey("switch_max_V", "V", "Switch rating", "The low-side switch's voltage rating (e.g. a MOSFET's VDS).",
+             required=True, low=0.0, low_inclusive=False, high=100e3),
+    TableKey("switch_limit_pct", "%", "Switch voltage ≤ [% of rating]", "The switch's stress at most this share "
+             "of its rating.", default=80.0, low=0.0, low_inclusive=False, high=100.0),
+    TableKey("switching_hz", "Hz", "Switching frequency", "Repetitive switching frequency; 0: occasional "
+             "switching (the coil settles between events).", default=0.0, high=1e6),
+    TableKey("duty_pct", "%", "Duty (on-time share)", "On-time share of the period; required when "
+             "switching_hz > 0.", low=0.0, low_inclusive=False, high=100.0),
+    TableKey("dropout_A", "A", "Drop-out current", "The coil current at which the relay or valve releases; the "
+             "release time is the decay to it.", low=0.0, low_inclusive=False, high=1e4),
+    TableKey("max_release_s", "s", "Release time ≤", "The longest allowed release time (needs dropout_A).",
+             low=0.0, low_inclusive=False, high=100.0),
+    TableKey("clamp", "", "Clamp", "diode: a diode alone across the coil; diode_zener: a Zener in series with it "
+             "for a fast release.", kind="choice", default="diode", choices=("diode", "diode_zener")),
+    TableKey("zener_V", "V", "Zener voltage", "Vz of the series Zener (clamp = diode_zener).", low=0.0,
+             low_inclusive=False, high=10e3),
+    TableKey("zener_tol_pct", "%", "Zener tolerance", "± tolerance of Vz: the high end sets the switch stress, "
+             "the low end the release time.", default=5.0, high=50.0),
+    TableKey("zener_pd_W", "W", "Zener power rating", "The series Zener's power rating (clamp = diode_zener).",
+             low=0.0, low_inclusive=False, high=1e4),
+))
 
 
 @dataclass
@@ -97,7 +102,7 @@ class _TurnOff:
     zener_voltage: np.ndarray    # Vz at the point's end [V]
 
 
-def _turn_off(coil: CoilTable, supply, ambient_K, vz, drop: DiodeDrop) -> _TurnOff:
+def _turn_off(coil, supply, ambient_K, vz, drop: DiodeDrop) -> _TurnOff:
     """Coil current at turn-off and its decay through the clamp, (P, K) over parts × points."""
     R = coil_resistance(coil.resistance_ohm, ambient_K, -coil.resistance_tol_pct / 100.0)
     L = coil.inductance_H
@@ -105,7 +110,7 @@ def _turn_off(coil: CoilTable, supply, ambient_K, vz, drop: DiodeDrop) -> _TurnO
     R = np.broadcast_to(R, shape)
     vz = np.broadcast_to(vz, shape)
     supply = np.broadcast_to(supply, shape)
-    if coil.repetitive:
+    if coil.switching_hz > 0:
         state = periodic_state(L, R, drop, supply, coil.switching_hz, coil.duty_pct / 100.0, vz)
         I0, valley, decay = state.peak_current, state.valley_current, state.decay
     else:
@@ -127,24 +132,84 @@ class InductiveClampRole(Role):
     label = "Coil clamp"
     kinds = ("rectifier", "signal", "schottky", "fast_recovery")
     objective_metrics = {"drop": "release_time_s", "dissipation": "dissipation_W"}
+    required_keys = ("supply_min_V", "supply_max_V")
+    unused_keys = _NOT_USED
+    table = COIL_TABLE
+    curve_plots = (("coil_current", "Coil current", {"legend": "top_right"}),
+                   ("switch_voltage", "Switch voltage", {"legend": "top_right"}))
+
+    check_labels = {"peak_current": "Peak current", "switch_voltage": "Switch voltage",
+                    "release_time": "Release time", "recovery": "Reverse recovery"}
+    metric_labels = {"coil_current_A": "Coil current at turn-off", "diode_peak_A": "Diode peak current",
+                     "diode_energy_J": "Diode energy per turn-off", "zener_energy_J": "Zener energy per turn-off",
+                     "diode_i2t_A2s": "Diode I²t per turn-off", "switch_voltage_V": "Switch voltage",
+                     "release_time_s": "Release time", "recovery_loss_W": "Recovery loss in the switch"}
+    key_metrics = ("coil_current_A", "switch_voltage_V", "release_time_s", "junction_temp_C")
+    rating_of_check = {"peak_current": ("ifsm_A", "IFSM (occasional) or IFRM (repetitive)", "A"),
+                       "recovery": ("trr_s", "trr", "s")}
+    method_notes = (
+        "Coil current at turn-off from the winding at its lowest resistance: copper R(Ta) = R20·(1 + 0.00393·(Ta − "
+        "20 °C)) at the low tolerance end (common practice). Occasional switching: I0 = Vs/R; repetitive: the "
+        "periodic steady state of on (L·di/dt = Vs − R·i) and off, closed by shooting on the current at turn-on.",
+        "The decay L·di/dt = −(R·i + Vf(i) + Vz) is integrated over the current (Gauss–Legendre in ln i) with the "
+        "diode's own forward curve at the ambient; the diode's and the Zener's energies, the I²t and the release "
+        "time to dropout_A follow; the energies add up to ½·L·I0² less what the winding dissipates.",
+        "Pulse heating: ΔTj = P·Zth(t), Zth(t) = RthJA·min(1, √(t/τ)), for P = Vf(I0)·I0 over t = E/P; where "
+        "tau_th_s is not known, the steady RthJA (conservative). The switch sees supply + Vf(I0) + Vz at the high "
+        "Vz end; the release time is taken at the low Vz end.",
+        "Occasional switching: the peak against IFSM and the I²t against IFSM²·t/2; repetitive: the peak against "
+        "IFRM where rated, else the average current against IF(AV). With current still in the diode at turn-on, "
+        "reverse recovery adds Qrr·Vs·f in the switch, and trr ≤ 5 % of the period (common practice).",
+    )
+    cautions = (
+        "A coil's stored energy is released into the clamp at every turn-off: an open or undersized clamp lets the "
+        "switch avalanche and can destroy it or the diode violently. The turn-off is a single-event estimate from "
+        "datasheet parameters; verify the switch voltage and the diode's temperature by measurement on the built "
+        "circuit, and follow the applicable test standards.",
+    )
+
+    def check_table(self, values, common, fail):
+        hz = values.get("switching_hz", 0.0)
+        if hz > 0 and "duty_pct" not in values:
+            fail("switching_hz", f"{hz:g} Hz needs duty_pct (the on-time share of the period)")
+        if hz == 0 and "duty_pct" in values:
+            fail("duty_pct", "is given with switching_hz = 0 (occasional switching has no duty; give switching_hz)")
+        if values.get("duty_pct", 50.0) >= 100.0:
+            fail("duty_pct", f"{values['duty_pct']:g} % leaves no off-time (allowed: 0 < duty_pct < 100)")
+        zener = values.get("clamp", "diode") == "diode_zener"
+        for key in ("zener_V", "zener_pd_W"):
+            if zener and key not in values:
+                fail("clamp", f"'diode_zener' needs {key} (the series Zener's "
+                              f"{'voltage' if key == 'zener_V' else 'power rating'})")
+        for key in ("zener_V", "zener_pd_W", "zener_tol_pct"):
+            if not zener and key in values:
+                fail(key, "is given but clamp is 'diode' (write clamp = \"diode_zener\" for a series Zener)")
+        if "max_release_s" in values and "dropout_A" not in values:
+            fail("max_release_s", "needs dropout_A (the release time is the decay to the drop-out current)")
+
+    def curves(self, requirement, part, candidate, notes):
+        from partpick.checks.roles.inductive_clamp_curves import coil_sections
+
+        return coil_sections(requirement, part, candidate, notes)
 
     def evaluate(self, requirement, parts, limits) -> RoleResult:
         req = requirement
-        coil = self.table(req)
+        coil = req.table("coil")
+        repetitive = coil.switching_hz > 0
+        with_zener = coil.clamp == "diode_zener"
         count = parts.count
-        ends = _ENDS if coil.with_zener else (None,)
+        ends = _ENDS if with_zener else (None,)
         combos = list(itertools.product((req.supply_min_V, req.supply_max_V),
                                         (req.ambient_min_C, req.ambient_max_C), ends))
         supply = np.array([c[0] for c in combos], dtype=float)
         ambient_C = np.array([c[1] for c in combos], dtype=float)
         end_of = tuple(c[2] for c in combos)
         K = len(combos)
-        points = PointTable(supply_V=supply, load_A=np.zeros(K), ambient_C=ambient_C, state=("turn_off",) * K,
-                            vz_end=end_of if coil.with_zener else None,
-                            resistor_end=(None,) * K if coil.with_zener else None)
+        points = PointTable(supply_V=supply, load_A=None, ambient_C=ambient_C, state=("turn_off",) * K,
+                            extra=(("zener_end", end_of),) if with_zener else ())
         ids = np.arange(K)
         ambient_K = ambient_C + ZERO_CELSIUS_K  # °C → K at the physics boundary
-        if coil.with_zener:
+        if with_zener:
             sign = np.array([-1.0 if e == "low" else 1.0 for e in end_of])
             vz = coil.zener_V * (1.0 + sign * coil.zener_tol_pct / 100.0)
         else:
@@ -156,7 +221,7 @@ class InductiveClampRole(Role):
                                                                                    ("pd_W", "rth_ja_K_per_W")]
         model_needs = [(f,) for f in _MODEL_FIELDS]
         needs.require("reverse_voltage", "vrrm_V")
-        if coil.repetitive:
+        if repetitive:
             needs.require("peak_current", ("ifrm_A", "if_avg_A"), *model_needs)
             needs.require("power", *model_needs, *thermal_needs)
         else:
@@ -164,7 +229,7 @@ class InductiveClampRole(Role):
             needs.require("surge", "ifsm_A", *model_needs)
         needs.require("junction_temp", *model_needs, *thermal_needs)
         needs.require("switch_voltage", *model_needs)
-        if coil.with_zener:
+        if with_zener:
             needs.require("zener_power", *model_needs)
         if coil.max_release_s is not None:
             needs.require("release_time", *model_needs)
@@ -183,7 +248,7 @@ class InductiveClampRole(Role):
         drop = DiodeDrop.from_model(model, np.broadcast_to(ambient_K[None, :], (count, K)))
         off = _turn_off(coil, supply[None, :], ambient_K[None, :], vz[None, :], drop)
         f = coil.switching_hz
-        if coil.repetitive:
+        if repetitive:
             diode_power = off.diode_energy * f
             zener_power = off.zener_energy * f
             diode_average = off.charge * f
@@ -195,7 +260,7 @@ class InductiveClampRole(Role):
         pulse_time = off.diode_energy / pulse_power
         tau = parts.value("tau_th_s", 0.0)[:, None]
         rise = pulse_temperature_rise(pulse_power, pulse_time, rth[:, None], tau)
-        steady_rise = diode_power * rth[:, None] if coil.repetitive else 0.0
+        steady_rise = diode_power * rth[:, None] if repetitive else 0.0
         tj_K = ambient_K[None, :] + steady_rise + rise
         mask = model_bad[:, None]
         nanify = lambda a: np.where(mask, np.nan, a)  # noqa: E731
@@ -215,7 +280,7 @@ class InductiveClampRole(Role):
         cur_pct, cur_src = limit_array(limits, groups, "current_pct")
         surge_pct, surge_src = limit_array(limits, groups, "surge_pct")
         peak_note = object_array(None, count)
-        if coil.repetitive:
+        if repetitive:
             # Repetitive: the peak against IFRM where rated; else the average against the derated IF(AV).
             ifrm = parts.raw["ifrm_A"]
             rated = np.isfinite(ifrm)
@@ -251,7 +316,7 @@ class InductiveClampRole(Role):
                 c.note = peak_note
 
         tj_lim, tj_src = tj_limit(limits, groups, tj_max_C)
-        if coil.repetitive:
+        if repetitive:
             pow_pct, pow_src = limit_array(limits, groups, "power_pct")
             p_allowed = allowed_power(np.broadcast_to(ambient_K[None, :], (count, K)), thermal.power_rating[:, None],
                                       tj_max_K[:, None], thermal.pd_ref_K[:, None])
@@ -281,15 +346,15 @@ class InductiveClampRole(Role):
             f"{coil.switch_max_V:g} V", reasons=with_missing("switch_voltage"),
             invalid=needs.missing("switch_voltage")))
 
-        if coil.with_zener:
+        if with_zener:
             z_pct, z_src = limit_array(limits, np.full(count, 2, dtype=np.int8), "power_pct")  # the Zener group
             z_limit = (coil.zener_pd_W or 0.0) * z_pct / 100.0
-            what = "average power" if coil.repetitive else "mean power while the coil decays (conservative)"
+            what = "average power" if repetitive else "mean power while the coil decays (conservative)"
             checks.append(worst_case_check(
                 "zener_power", "W", nanify(zener_power), z_limit, ids, "max",
                 object_array(f"{z_src[2]}: {z_pct[0]:g} % of [coil] zener_pd_W {coil.zener_pd_W:g} W ({what})", count),
                 reasons=with_missing("zener_power"), invalid=needs.missing("zener_power")))
-            if not coil.repetitive:
+            if not repetitive:
                 note = object_array("one event: a Zener's pulse rating for ms pulses lies well above its steady "
                                     "rating; check the Zener's surge curve", count)
                 checks[-1].note = note
@@ -301,7 +366,7 @@ class InductiveClampRole(Role):
                 invalid=needs.missing("release_time")))
 
         # recovery: with current still in the diode at turn-on, trr against 5 % of the period.
-        recovery_applies = (off.valley > 0).any(axis=1) & ~model_bad if coil.repetitive else np.zeros(count, bool)
+        recovery_applies = (off.valley > 0).any(axis=1) & ~model_bad if repetitive else np.zeros(count, bool)
         schottky = parts.kind == "schottky"
         trr = np.where(parts.known("trr_s"), parts.raw["trr_s"], np.where(schottky, 0.0, np.nan))
         qrr = np.where(parts.known("qrr_C"), parts.raw["qrr_C"], np.where(schottky, 0.0, np.nan))
@@ -342,7 +407,7 @@ class InductiveClampRole(Role):
                          ("junction_temp_C", tj_K - ZERO_CELSIUS_K), ("switch_voltage_V", switch),
                          ("diode_i2t_A2s", off.i2t)):
             metrics[key], metric_points[key] = worst(arr)
-        if coil.with_zener:
+        if with_zener:
             for key, arr in (("zener_energy_J", off.zener_energy), ("zener_power_W", zener_power)):
                 metrics[key], metric_points[key] = worst(arr)
         if coil.dropout_A is not None:
@@ -365,11 +430,6 @@ class InductiveClampRole(Role):
             "pulse_rise_K": rise,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
-
-    @staticmethod
-    def table(requirement) -> CoilTable:
-        """The requirement's ``[coil]`` table."""
-        return requirement.coil
 
 
 def _group_values(limits: dict, key: str) -> list:

@@ -10,8 +10,11 @@ stress), as the checks take them.
 
 from __future__ import annotations
 
+from types import SimpleNamespace
+
 import numpy as np
 
+from partpick.checks.curves import number, record_forward_model
 from partpick.physics.coil import DiodeDrop, coil_decay, coil_resistance, periodic_state
 from partpick.physics.constants import celsius_to_kelvin
 
@@ -32,27 +35,30 @@ def _trajectory(L, R, drop, I0, vz):
     return t, i
 
 
-def coil_sections(requirement, part: dict, model, candidate: dict | None, notes: list[str]) -> dict:
+def coil_sections(requirement: dict, part: dict, candidate: dict | None, notes: list[str]) -> dict:
     """``coil_current`` and ``switch_voltage`` sections for one part (None where the model is missing).
 
     Parameters
     ----------
-    requirement : Requirement
-        With its ``coil`` table.
+    requirement : dict
+        The requirement's keys (`Requirement.to_dict`), with its ``coil`` table.
     part : dict
-        The part record.
-    model : ForwardModel or None
-        The part's checked forward model (None: no curves).
+        The part record; its forward model is moved to VF max where given, as the checks do.
     candidate : dict, optional
-        The part's JSON entry (unused beyond the part number; the limits come from the requirement).
+        The part's JSON entry (the limits drawn come from the requirement).
     """
-    coil = requirement.coil
+    coil = SimpleNamespace(**requirement["coil"])
     out = {"coil_current": None, "switch_voltage": None}
+    model = record_forward_model(part, notes)
     if model is None:
         notes.append("no forward model: the turn-off curves need the diode's curve")
         return out
-    ambient_K = float(celsius_to_kelvin(requirement.ambient_min_C))
-    supply = requirement.supply_max_V
+    vf_max, vf_at = number(part, "vf_max_V"), number(part, "vf_max_at_A")
+    if vf_max is not None and vf_at is not None:
+        model = model.with_max_vf(vf_max, vf_at)
+    ambient_min = float(requirement["ambient_min_C"])
+    ambient_K = float(celsius_to_kelvin(ambient_min))
+    supply = float(requirement["supply_max_V"])
     R = float(coil_resistance(coil.resistance_ohm, ambient_K, -coil.resistance_tol_pct / 100.0))
     L = coil.inductance_H
     drop = DiodeDrop.from_model(model, ambient_K)
@@ -65,7 +71,7 @@ def coil_sections(requirement, part: dict, model, candidate: dict | None, notes:
         clamps.append((f"diode + Zener {coil.zener_V:g} V", low, high, "maximum"))
     current_curves, voltage_curves, release_points = [], [], []
     for label, vz_low, vz_high, role in clamps:
-        if coil.repetitive:
+        if coil.switching_hz > 0:
             I0 = float(periodic_state(L, R, drop, supply, coil.switching_hz, coil.duty_pct / 100.0,
                                       vz_low).peak_current)
         else:
@@ -81,7 +87,7 @@ def coil_sections(requirement, part: dict, model, candidate: dict | None, notes:
         end = f" (Vz high end {vz_high:.3g} V)" if vz_high else ""
         voltage_curves.append({"label": label + end, "x": t2, "y": v, "role": role})
     pn = part.get("part_number", "")
-    corner = f"{supply:g} V, {requirement.ambient_min_C:g} °C, winding {R:.3g} Ω"
+    corner = f"{supply:g} V, {ambient_min:g} °C, winding {R:.3g} Ω"
     hlines = []
     if coil.dropout_A is not None:
         hlines.append({"label": f"drop-out current {coil.dropout_A:g} A", "value": coil.dropout_A, "role": "limit"})

@@ -20,6 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from partpick.checks.partdata import Needs, limit_array
+from partpick.checks.role_table import RoleTable, TableKey
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
 from partpick.checks.roles.base import Role, RoleResult
 from partpick.library.fields import parse_waveform
@@ -27,7 +28,8 @@ from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.leakage import reverse_current
 from partpick.physics.tvs import (PULSE_RANGE_S, breakdown_voltage_at, derated_pulse_rating, pulse_rating_for)
 
-__all__ = ["TvsClampRole", "ROLE", "SurgeTable", "SURGE_DEFAULTS", "DEFAULT_VBR_TC_PCT_PER_K"]
+__all__ = ["TvsClampRole", "ROLE", "SURGE_TABLE", "SURGE_WAVEFORMS", "DEFAULT_VBR_TC_PCT_PER_K",
+           "DEFAULT_PPP_WAVEFORM"]
 
 _ENDS = ("low", "high")
 # Avalanche breakdown rises with temperature, about +0.1 %/K for TVS parts of tens of volts
@@ -35,30 +37,52 @@ _ENDS = ("low", "high")
 DEFAULT_VBR_TC_PCT_PER_K = 0.1
 DEFAULT_PPP_WAVEFORM = "10/1000"
 
-SURGE_DEFAULTS = {
-    "clamp_limit_pct": 90.0,
-    "surge_waveform": "8/20",
-    "bidirectional_line": False,
+# The short-circuit current waveforms of the usual surge tests (rise/decay in µs; common practice):
+# 8/20 the combination wave's current (its 1.2/50 is the open-circuit voltage), 10/1000 and 10/350
+# the long pulses, 5/320 the current of the 10/700 telecom wave, 2/10, 10/160 and 10/560 telecom pulses.
+SURGE_WAVEFORMS = ("8/20", "10/1000", "10/350", "5/320", "2/10", "10/160", "10/560")
+
+_NOT_USED = {
+    "supply_min_V": "a surge clamp has no DC supply: give the line's maximum as [surge] line_max_V",
+    "supply_max_V": "a surge clamp has no DC supply: give the line's maximum as [surge] line_max_V",
+    "load_min_A": "a surge clamp carries no load current",
+    "load_max_A": "a surge clamp carries no load current",
+    "reverse_V": "the line voltage is [surge] line_max_V",
+    "reverse_transient_V": "the surge is [surge] surge_V behind surge_source_ohm",
+    "reverse_margin_pct": "the stand-off and breakdown checks take [surge] line_max_V as it is",
+    "handover": "a surge clamp has no hand-over",
+    "max_forward_drop_V": "a surge clamp has no forward drop check: use [surge] protected_max_V",
+    "min_output_V": "a surge clamp has no output",
+    "tj_margin_K": "a surge clamp has no steady junction temperature: the pulse rating is derated with ambient",
+    "current_derating_pct": "a surge clamp's limit is its pulse power (policy pulse-power limit)",
+    "current_limit_pct": "a surge clamp's limit is its pulse power (policy pulse-power limit)",
+    "power_derating_pct": "a surge clamp's limit is its pulse power (policy pulse-power limit)",
+    "power_limit_pct": "a surge clamp's limit is its pulse power (policy pulse-power limit)",
+    "resistor_power_derating_pct": "a surge clamp has no resistor",
+    "resistor_power_limit_pct": "a surge clamp has no resistor",
+    "rth_ja_K_per_W": "a surge clamp has no steady heating: its pulse rating is derated with ambient",
+    "inrush_capacitance_F": "a surge clamp has no inrush check",
+    "inrush_source_ohm": "a surge clamp has no inrush check",
 }
-SURGE_REQUIRED = ("line_max_V", "protected_max_V", "surge_V", "surge_source_ohm")
 
-
-@dataclass(frozen=True)
-class SurgeTable:
-    """The ``[surge]`` table (SI units, % as written; the waveform as ``rise/decay`` in µs)."""
-
-    line_max_V: float
-    protected_max_V: float
-    surge_V: float
-    surge_source_ohm: float
-    clamp_limit_pct: float = SURGE_DEFAULTS["clamp_limit_pct"]
-    surge_waveform: str = SURGE_DEFAULTS["surge_waveform"]
-    bidirectional_line: bool = SURGE_DEFAULTS["bidirectional_line"]
-
-    @property
-    def decay_s(self) -> float:
-        """The surge waveform's decay time [s]."""
-        return parse_waveform(self.surge_waveform)[1]
+SURGE_TABLE = RoleTable("surge", "Surge clamp", (
+    TableKey("line_max_V", "V", "Line maximum", "The highest normal line voltage (the TVS must not conduct).",
+             required=True, low=0.0, low_inclusive=False, high=100e3),
+    TableKey("protected_max_V", "V", "Protected maximum", "The highest voltage the protected circuit survives.",
+             required=True, low=0.0, low_inclusive=False, high=100e3),
+    TableKey("clamp_limit_pct", "%", "Clamp voltage ≤ [% of protected max]", "The clamp voltage at most this "
+             "share of the protected maximum.", default=90.0, low=0.0, low_inclusive=False, high=100.0),
+    TableKey("surge_V", "V", "Surge voltage", "The surge generator's open-circuit peak.", required=True, low=0.0,
+             low_inclusive=False, high=1e6),
+    TableKey("surge_source_ohm", "Ω", "Surge source resistance", "The generator's source resistance with any "
+             "coupling network (e.g. 2 Ω, or 42 Ω with the usual 40 Ω coupling on lines; common practice).",
+             required=True, low=0.0, low_inclusive=False, high=1e6),
+    TableKey("surge_waveform", "µs", "Surge current waveform", "The short-circuit current waveform, rise/decay "
+             "in µs: 8/20 for the combination wave (not its 1.2/50 voltage).", kind="choice", default="8/20",
+             choices=SURGE_WAVEFORMS),
+    TableKey("bidirectional_line", "", "Bidirectional line", "The line swings or is surged in both polarities: "
+             "a bidirectional part is needed.", kind="bool", default=False),
+))
 
 
 def _decay_times(texts: np.ndarray) -> np.ndarray:
@@ -84,7 +108,7 @@ class _SurgePoint:
     power: np.ndarray
 
 
-def _surge(surge: SurgeTable, vbr_end, tc_pct, rd, ambient_K) -> _SurgePoint:
+def _surge(surge, vbr_end, tc_pct, rd, ambient_K) -> _SurgePoint:
     """Clamp line at each end and ambient, and where the surge generator meets it."""
     vbr = breakdown_voltage_at(vbr_end, tc_pct, ambient_K)
     # The generator's line meets the clamp line (IT, mA, neglected against the surge's amperes).
@@ -98,17 +122,60 @@ class TvsClampRole(Role):
     label = "Surge clamp"
     kinds = ("tvs",)
     objective_metrics = {"drop": "clamp_voltage_V", "dissipation": "pulse_stress_pct"}
+    required_keys = ()
+    unused_keys = _NOT_USED
+    table = SURGE_TABLE
+    curve_plots = (("clamp_line", "Clamp line", {"legend": "bottom_right"}),
+                   ("pulse_rating", "Pulse rating", {"legend": "top_right", "log_x": True, "log_y": True}))
+    check_labels = {"standoff": "Stand-off", "breakdown_margin": "Breakdown above line", "clamp_voltage":
+                    "Clamp voltage", "pulse_power": "Pulse power", "direction": "Direction"}
+    metric_labels = {"surge_current_A": "Surge current", "clamp_voltage_V": "Clamp voltage",
+                     "pulse_power_W": "Pulse power", "pulse_rating_W": "Pulse rating (moved, derated)",
+                     "pulse_stress_pct": "Pulse stress", "standoff_V": "Stand-off VWM",
+                     "breakdown_min_V": "VBR min (coldest)"}
+    key_metrics = ("clamp_voltage_V", "surge_current_A", "pulse_stress_pct", "standoff_V")
+    rating_of_check = {"standoff": ("vwm_V", "VWM", "V"), "breakdown_margin": ("vbr_min_V", "VBR min", "V"),
+                       "clamp_voltage": ("vc_V", "VC at IPP", "V"), "pulse_power": ("ppp_W", "PPP", "W")}
+    method_notes = (
+        "Clamp line V = VBR + Rd·I through the datasheet's (IT, VBR max) and (IPP, VC): Rd = (VC − VBR max)/(IPP − "
+        "IT), at both ends of VBR, moved by the breakdown's temperature coefficient to the ambient ends (+0.1 %/K "
+        "where the part gives none, common practice). The surge generator's line meets it at Ip = (Vsurge − "
+        "VBR)/(Rsource + Rd); the surge current is taken at VBR min, the clamp voltage at VBR max.",
+        "The pulse rating is moved to the surge's decay time through the part's two rating points (log–log), or "
+        "from one by Ppp ∝ t^(−1/2) (common practice, from memory), never beyond 10 µs–10 ms, and derated "
+        "linearly from 25 °C to zero at Tj max at the ambient (common practice).",
+        "A single surge pulse is assumed: repeated surges heat the part further; the clamp line beyond IPP is an "
+        "extrapolation.",
+    )
+    cautions = (
+        "Surge energy can destroy a clamp violently (a TVS fails short, then open, and can burn); this is a "
+        "single-pulse estimate from datasheet parameters. Defer to the applicable surge test standards and verify "
+        "by a surge test on the built circuit.",
+    )
+
+    def check_table(self, values, common, fail):
+        if values["protected_max_V"] <= values["line_max_V"]:
+            fail("protected_max_V", f"{values['protected_max_V']:g} V is not above line_max_V = "
+                                    f"{values['line_max_V']:g} V (no clamp fits between the line and the limit)")
+        if values["surge_V"] <= values["line_max_V"]:
+            fail("surge_V", f"{values['surge_V']:g} V is not above line_max_V = {values['line_max_V']:g} V "
+                            "(the open-circuit peak of the surge, not its rise above the line)")
+
+    def curves(self, requirement, part, candidate, notes):
+        from partpick.checks.roles.tvs_clamp_curves import tvs_sections
+
+        return tvs_sections(requirement, part, candidate, notes)
 
     def evaluate(self, requirement, parts, limits) -> RoleResult:
         req = requirement
-        surge = self.table(req)
+        surge = req.table("surge")
         count = parts.count
         combos = list(itertools.product((req.ambient_min_C, req.ambient_max_C), _ENDS))
         ambient_C = np.array([c[0] for c in combos], dtype=float)
         end_of = tuple(c[1] for c in combos)
         K = len(combos)
-        points = PointTable(supply_V=np.full(K, surge.surge_V), load_A=np.zeros(K), ambient_C=ambient_C,
-                            state=("surge",) * K, vz_end=end_of, resistor_end=(None,) * K)
+        points = PointTable(supply_V=None, load_A=None, ambient_C=ambient_C, state=("surge",) * K,
+                            extra=(("vbr_end", end_of),))
         ids = np.arange(K)
         low = np.array([e == "low" for e in end_of])
         cold = ambient_C == req.ambient_min_C
@@ -142,7 +209,7 @@ class TvsClampRole(Role):
         nanify = lambda a: np.where(mask, np.nan, a)  # noqa: E731
 
         # Pulse rating at the surge's decay time, derated at the ambient.
-        decay = surge.decay_s
+        decay = parse_waveform(surge.surge_waveform)[1]
         ppp = parts.value("ppp_W", 1.0)
         ppp_t = _decay_times(parts.ppp_waveform)
         ppp_t = np.where(np.isfinite(ppp_t), ppp_t, parse_waveform(DEFAULT_PPP_WAVEFORM)[1])
@@ -258,11 +325,6 @@ class TvsClampRole(Role):
             "ppp_W": parts.raw["ppp_W"], "ppp_decay_s": ppp_t, "ppp2_W": parts.raw["ppp2_W"], "ppp2_decay_s": ppp2_t,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
-
-    @staticmethod
-    def table(requirement) -> SurgeTable:
-        """The requirement's ``[surge]`` table."""
-        return requirement.surge
 
 
 def _group_values(limits: dict, key: str) -> list:

@@ -11,6 +11,8 @@ surge's pulse power at its decay time.
 
 from __future__ import annotations
 
+from types import SimpleNamespace
+
 import numpy as np
 
 from partpick.library.fields import parse_waveform
@@ -27,11 +29,12 @@ def _number(part, key):
     return None if value is None else float(value)
 
 
-def tvs_sections(requirement, part: dict, candidate: dict | None, notes: list[str]) -> dict:
+def tvs_sections(requirement: dict, part: dict, candidate: dict | None, notes: list[str]) -> dict:
     """``clamp_line`` and ``pulse_rating`` sections for one TVS part (None where data are missing)."""
     from partpick.checks.roles.tvs_clamp import DEFAULT_PPP_WAVEFORM, DEFAULT_VBR_TC_PCT_PER_K
 
-    surge = requirement.surge
+    surge = SimpleNamespace(**requirement["surge"])
+    ambient_min, ambient_max = float(requirement["ambient_min_C"]), float(requirement["ambient_max_C"])
     out = {"clamp_line": None, "pulse_rating": None}
     values = {k: _number(part, k) for k in ("vbr_min_V", "vbr_max_V", "vc_V", "ipp_A", "it_A", "ppp_W",
                                                "tj_max_C", "vbr_tc_pct_per_K", "ppp2_W")}
@@ -42,10 +45,10 @@ def tvs_sections(requirement, part: dict, candidate: dict | None, notes: list[st
     pn = part.get("part_number", "")
     tc = values["vbr_tc_pct_per_K"] if values["vbr_tc_pct_per_K"] is not None else DEFAULT_VBR_TC_PCT_PER_K
     rd = (values["vc_V"] - values["vbr_max_V"]) / (values["ipp_A"] - values["it_A"])
-    cold = float(celsius_to_kelvin(requirement.ambient_min_C))
-    hot = float(celsius_to_kelvin(requirement.ambient_max_C))
-    ends = [("VBR min", values["vbr_min_V"], cold, requirement.ambient_min_C, "typical_cold"),
-            ("VBR max", values["vbr_max_V"], hot, requirement.ambient_max_C, "maximum_hot")]
+    cold = float(celsius_to_kelvin(ambient_min))
+    hot = float(celsius_to_kelvin(ambient_max))
+    ends = [("VBR min", values["vbr_min_V"], cold, ambient_min, "typical_cold"),
+            ("VBR max", values["vbr_max_V"], hot, ambient_max, "maximum_hot")]
     ip = {}
     for name, vbr, T, amb, _ in ends:
         v = float(breakdown_voltage_at(vbr, tc, T))
@@ -96,14 +99,14 @@ def tvs_sections(requirement, part: dict, candidate: dict | None, notes: list[st
             except ValueError:
                 share = 1.0
     curves = [{"label": "pulse rating at 25 °C", "x": durations, "y": moved, "role": "rating"},
-              {"label": f"derated at {requirement.ambient_max_C:g} °C", "x": durations, "y": derated,
+              {"label": f"derated at {ambient_max:g} °C", "x": durations, "y": derated,
                "role": "typical_hot"}]
     if abs(share - 1.0) > 1e-9:
         curves.append({"label": f"× {100 * share:g} % (policy)", "x": durations, "y": share * derated,
                        "role": "derating"})
     rating_x = [ppp_t] + ([ppp2_t] if np.isfinite(ppp2) and np.isfinite(ppp2_t) else [])
     rating_y = [values["ppp_W"]] + ([ppp2] if len(rating_x) == 2 else [])
-    decay = surge.decay_s
+    decay = parse_waveform(surge.surge_waveform)[1]
     power = [v * c for v, c in ((ip[k][0] + rd * ip[k][1], ip[k][1]) for k in ip)]
     points = [{"label": "datasheet rating points (25 °C)", "x": np.array(rating_x), "y": np.array(rating_y),
                "corners": [], "role": "datasheet"},
