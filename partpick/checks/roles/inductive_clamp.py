@@ -389,8 +389,9 @@ class InductiveClampRole(Role):
 
         any_missing = needs.any_missing() | recovery_missing
         reason = needs.data_missing_reason()
-        extra = recovery_missing & (reason == None)  # noqa: E711 - object array comparison
-        reason[extra] = "not known: trr_s (needed by recovery)"
+        for j in np.flatnonzero(recovery_missing):  # trr is needed only where recovery applies
+            text = "not known: trr_s (needed by recovery)"
+            reason[j] = text if reason[j] is None else f"{reason[j]}; {text}"
         nan = np.full(count, np.nan)
         checks.append(worst_case_check(
             "data_missing", "", nan[:, None], nan, [-1], "max", "part record: the fields the checks need",

@@ -189,8 +189,6 @@ class TvsClampRole(Role):
         needs.require("pulse_power", "vbr_min_V", "vbr_max_V", "vc_V", "ipp_A", "it_A", "ppp_W", "tj_max_C")
         if req.max_leakage_A is not None:
             needs.require("leakage", "ir_A", "ir_vr_V")
-        if surge.bidirectional_line:
-            needs.require("direction", "bidirectional")
         known = lambda name: parts.known(name)  # noqa: E731
         line_bad = ~(known("vbr_min_V") & known("vbr_max_V") & known("vc_V") & known("ipp_A") & known("it_A"))
         vbr_min = parts.value("vbr_min_V", 10.0)
@@ -278,19 +276,26 @@ class TvsClampRole(Role):
             checks.append(worst_case_check(
                 "leakage", "A", leak[:, None], np.full(count, req.max_leakage_A), [hot_low], "max",
                 "requirement max_leakage_A", reasons=with_missing("leakage"), invalid=lacking))
+        # direction: a text field, so its missing data are found here, not by Needs (numbers only).
+        direction_lacking = np.zeros(count, dtype=bool)
         if surge.bidirectional_line:
-            lacking = needs.missing("direction")
-            both = np.where(lacking, np.nan, (parts.bidirectional == "true").astype(float))
+            direction_lacking = ~((parts.bidirectional == "true") | (parts.bidirectional == "false"))
+            both = np.where(direction_lacking, np.nan, (parts.bidirectional == "true").astype(float))
             checks.append(worst_case_check(
                 "direction", "", both[:, None], np.ones(count), [hot_low], "min",
                 "requirement [surge] bidirectional_line: a bidirectional part (1 = bidirectional, 0 = not)",
-                reasons=with_missing("direction"), invalid=lacking))
+                reasons=[(direction_lacking, "not known: bidirectional (needed by direction)")],
+                invalid=direction_lacking))
 
-        any_missing = needs.any_missing()
+        any_missing = needs.any_missing() | direction_lacking
+        reason = needs.data_missing_reason()
+        for j in np.flatnonzero(direction_lacking):
+            text = "not known: bidirectional (needed by direction)"
+            reason[j] = text if reason[j] is None else f"{reason[j]}; {text}"
         nan = np.full(count, np.nan)
         checks.append(worst_case_check(
             "data_missing", "", nan[:, None], nan, [-1], "max", "part record: the fields the checks need",
-            reasons=[(any_missing, needs.data_missing_reason())], present=any_missing))
+            reasons=[(any_missing, reason)], present=any_missing))
 
         # ---- metrics at their worst point --------------------------------------------
         def worst(a, sense="max"):
