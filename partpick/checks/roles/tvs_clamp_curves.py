@@ -60,7 +60,8 @@ def tvs_sections(requirement: dict, part: dict, candidate: dict | None, notes: l
     # The generator's line, only where it crosses the plotted voltages (its open-circuit end is far above).
     v_top = 1.5 * max(surge.protected_max_V, max(v + rd * c for v, c in ip.values()))
     i_from = max(0.0, (surge.surge_V - v_top) / surge.surge_source_ohm)
-    gen_i = np.linspace(i_from, i_top, _POINTS)
+    i_to = min(i_top, surge.surge_V / surge.surge_source_ohm)  # down to 0 V, the short-circuit current
+    gen_i = np.linspace(i_from, i_to, _POINTS)
     curves.append({"label": f"surge source {surge.surge_V:g} V behind {surge.surge_source_ohm:g} Ω",
                    "x": gen_i, "y": surge.surge_V - surge.surge_source_ohm * gen_i, "role": "load_line"})
     points = [
