@@ -64,11 +64,11 @@ def coil_sections(requirement: dict, part: dict, candidate: dict | None, notes: 
     drop = DiodeDrop.from_model(model, ambient_K)
     drop = DiodeDrop(*(np.ravel(np.asarray(x, float))[0] for x in (drop.saturation_current, drop.ideality,
                                                                    drop.series_resistance, drop.temperature)))
-    clamps = [("diode only", 0.0, 0.0, "typical")]
+    clamps = [("diode only", 0.0, 0.0, "typical_cold")]
     if coil.zener_V is not None:
         low = coil.zener_V * (1 - coil.zener_tol_pct / 100.0)
         high = coil.zener_V * (1 + coil.zener_tol_pct / 100.0)
-        clamps.append((f"diode + Zener {coil.zener_V:g} V", low, high, "maximum"))
+        clamps.append((f"diode + Zener {coil.zener_V:g} V", low, high, "maximum_hot"))
     current_curves, voltage_curves, release_points = [], [], []
     for label, vz_low, vz_high, role in clamps:
         if coil.switching_hz > 0:
