@@ -117,12 +117,12 @@ def _turn_off(coil, supply, ambient_K, vz, drop: DiodeDrop) -> _TurnOff:
         I0 = supply / R
         valley = np.zeros(shape)
         decay = coil_decay(L, R, drop, I0, 0.0, vz)
-    event = coil_decay(L, R, drop, I0, _EVENT_END * I0, vz).time
+    event = coil_decay(L, R, drop, I0, _EVENT_END * I0, vz, with_energy=False).time
     release = np.full(shape, np.nan)
     if coil.dropout_A is not None:
         above = I0 > coil.dropout_A
-        release = np.where(above, coil_decay(L, R, drop, I0, np.where(above, coil.dropout_A, 0.5 * I0), vz).time,
-                           0.0)
+        stop = np.where(above, coil.dropout_A, 0.5 * I0)
+        release = np.where(above, coil_decay(L, R, drop, I0, stop, vz, with_energy=False).time, 0.0)
     return _TurnOff(I0, valley, decay.diode_energy, decay.zener_energy, decay.current_squared_time, decay.charge,
                     event, release, drop(I0), vz)
 
