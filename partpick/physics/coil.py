@@ -199,6 +199,20 @@ def _quadrature(inductance, resistance, drop, zener, s_low, s_high, with_energy=
     return DecayResult(time, np.sum(wg * vf, axis=-1), charge * zener, i2t * resistance, i2t, charge)
 
 
+def _decay_time(inductance, resistance, drop, zener, s_low, s_high):
+    """The decay time over [s_low, s_high] (1-D arrays): 12 nodes where the span in ln i is ≤ 7, else 24."""
+    short = (s_high - s_low) <= 7.0
+    if short.all() or not short.any():
+        return _quadrature(inductance, resistance, drop.expanded(), zener, s_low, s_high, with_energy=False,
+                           nodes=12 if short.all() else 24)
+    out = np.empty(s_low.shape)
+    for mask, nodes in ((short, 12), (~short, 24)):
+        idx = np.flatnonzero(mask)
+        out[idx] = _quadrature(inductance[idx], resistance[idx], _subset(drop, s_low.shape, idx)
+                               .expanded(), zener[idx], s_low[idx], s_high[idx], with_energy=False, nodes=nodes)
+    return out
+
+
 def _rate(inductance, resistance, drop, zener, current):
     """dt/ds = L·i/F(i) at one current (drop's parameters without the trailing axis)."""
     return inductance * current / (resistance * current + drop(current) + zener)
@@ -285,7 +299,7 @@ class PeriodicState:
 
 
 def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_voltage=0.0,
-                   *, tolerance=1e-10, max_iterations=60) -> PeriodicState:
+                   *, tolerance=1e-9, max_iterations=60) -> PeriodicState:
     """Peak and valley currents of a coil switched repetitively, and the clamp's energies per cycle.
 
     Parameters
@@ -345,12 +359,17 @@ def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_
     # From zero current: does the coil decay fully within the off-time?
     p0 = peak(np.zeros_like(final))
     s_top = np.log(p0)
-    full = _quadrature(L, R, flat_drop.expanded(), Vz, s_top + np.log(_FLOOR), s_top, with_energy=False)
-    decays_fully = full <= t_off
+    from_zero = _quadrature(L, R, flat_drop.expanded(), Vz, s_top + np.log(_FLOOR), s_top)
+    decays_fully = from_zero.time <= t_off
     # Unknown x = ln i_v in (ln(floor·p0), ln final): residual t(p(v) → v) − t_off falls from > 0 to < 0.
     lo = s_top + np.log(_FLOOR)
     hi = np.log(final)
-    x = np.clip(np.log(np.maximum(0.5 * p0, p0 * 1e-3)), lo, hi - 1e-9)
+    # Start from the cycle with a constant clamp drop Vc = Vf(p0) + Vz, which closes in closed form:
+    # v = ((Vs/R)(1 − k) + Vc/R)·e − Vc/R over (1 − k·e), e = exp(−t_off·R/L) (first-order RL circuit).
+    vc_R = (np.asarray(flat_drop(p0), dtype=float) + Vz) / R
+    e = np.exp(-t_off * R / L)
+    guess = ((final * (1.0 - k) + vc_R) * e - vc_R) / (1.0 - k * e)
+    x = np.clip(np.log(np.maximum(guess, p0 * 1e-3)), lo, hi - 1e-9)
     active = np.flatnonzero(~decays_fully)
     for _ in range(max_iterations):
         if active.size == 0:
@@ -360,9 +379,7 @@ def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_
         Ra, La, Vza, ka = R[active], L[active], Vz[active], k[active]
         pa = final[active] + (va - final[active]) * ka
         sub = _subset(flat_drop, final.shape, active)
-        span = np.log(pa) - xa
-        r = _quadrature(La, Ra, sub.expanded(), Vza, xa, np.log(pa), with_energy=False,
-                        nodes=12 if np.all(span <= 7.0) else 24) - t_off[active]
+        r = _decay_time(La, Ra, sub, Vza, xa, np.log(pa)) - t_off[active]
         # d/dx of the decay time from p(v) to v, x = ln v: g(ln p)·k·v/p − g(x), g = dt/ds = L·i/F(i).
         slope = _rate(La, Ra, sub, Vza, pa) * ka * va / pa - _rate(La, Ra, sub, Vza, va)
         lo_a = np.where(r > 0, xa, lo[active])
@@ -380,12 +397,17 @@ def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_
                                f"for {active.size} elements")
     valley = np.where(decays_fully, 0.0, np.exp(x))
     peak_current = peak(valley)
-    s_high = np.log(peak_current)
-    s_low = np.where(decays_fully, s_high + np.log(_FLOOR), np.log(np.maximum(valley, peak_current * _FLOOR)))
-    decay = _quadrature(L, R, flat_drop.expanded(), Vz, s_low, s_high)
+    # Where the coil decays fully, the decay from zero is the cycle's; elsewhere from the peak to the valley.
+    fields = ("time", "diode_energy", "zener_energy", "coil_energy", "current_squared_time", "charge")
+    columns = {f: np.array(getattr(from_zero, f), dtype=float) for f in fields}
+    rest = np.flatnonzero(~decays_fully)
+    if rest.size:
+        part = _quadrature(L[rest], R[rest], _subset(flat_drop, final.shape, rest).expanded(), Vz[rest],
+                           np.log(np.maximum(valley[rest], peak_current[rest] * _FLOOR)), np.log(peak_current[rest]))
+        for f in fields:
+            columns[f][rest] = getattr(part, f)
+    decay = DecayResult(*(columns[f].reshape(shape) for f in fields))
     back = lambda a: a.reshape(shape)  # noqa: E731
-    decay = DecayResult(*(back(v) for v in (decay.time, decay.diode_energy, decay.zener_energy, decay.coil_energy,
-                                            decay.current_squared_time, decay.charge)))
     return PeriodicState(back(peak_current), back(valley), decay, back(decays_fully))
 
 
