@@ -70,19 +70,22 @@ def coil_sections(requirement: dict, part: dict, candidate: dict | None, notes: 
         high = coil.zener_V * (1 + coil.zener_tol_pct / 100.0)
         clamps.append((f"diode + Zener {coil.zener_V:g} V", low, high, "maximum_hot"))
     current_curves, voltage_curves, release_points = [], [], []
+    def turn_off_current(vz):
+        if coil.switching_hz > 0:  # the periodic peak depends on the clamp through the current left at turn-on
+            return float(periodic_state(L, R, drop, supply, coil.switching_hz, coil.duty_pct / 100.0,
+                                        vz).peak_current)
+        return supply / R
+
     for label, vz_low, vz_high, role in clamps:
-        if coil.switching_hz > 0:
-            I0 = float(periodic_state(L, R, drop, supply, coil.switching_hz, coil.duty_pct / 100.0,
-                                      vz_low).peak_current)
-        else:
-            I0 = supply / R
+        I0 = turn_off_current(vz_low)
         t, i = _trajectory(L, R, drop, I0, vz_low)
         end = f" (Vz low end {vz_low:.3g} V)" if vz_low else ""
         current_curves.append({"label": label + end, "x": t, "y": i, "role": role})
         if coil.dropout_A is not None and coil.dropout_A < I0:
             release = float(coil_decay(L, R, drop, I0, coil.dropout_A, vz_low).time)
             release_points.append((release, coil.dropout_A, label))
-        t2, i2 = _trajectory(L, R, drop, I0, vz_high)
+        I0_high = turn_off_current(vz_high)
+        t2, i2 = _trajectory(L, R, drop, I0_high, vz_high)
         v = supply + np.asarray(drop(i2), float) + np.where(i2 > 0, vz_high, 0.0)
         end = f" (Vz high end {vz_high:.3g} V)" if vz_high else ""
         voltage_curves.append({"label": label + end, "x": t2, "y": v, "role": role})
