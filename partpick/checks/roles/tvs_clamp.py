@@ -126,7 +126,7 @@ class TvsClampRole(Role):
     unused_keys = _NOT_USED
     table = SURGE_TABLE
     curve_plots = (("clamp_line", "Clamp line", {"legend": "bottom_right"}),
-                   ("pulse_rating", "Pulse rating", {"legend": "top_right", "log_x": True, "log_y": True}))
+                   ("pulse_rating", "Pulse rating", {"legend": "bottom_right", "log_x": True, "log_y": True}))
     check_labels = {"standoff": "Stand-off", "breakdown_margin": "Breakdown above line", "clamp_voltage":
                     "Clamp voltage", "pulse_power": "Pulse power", "direction": "Direction"}
     metric_labels = {"surge_current_A": "Surge current", "clamp_voltage_V": "Clamp voltage",
