@@ -265,14 +265,14 @@ class TvsClampRole(Role):
         checks[-1].note = object_array([f"{s}; derated linearly 25 °C → Tj max (common practice)"
                                         for s in scaling.tolist()])
 
-        leak = np.full(count, np.nan)
+        # Leakage at the line maximum and the hottest ambient (a metric always, a check when a limit is given).
+        lacking = ~(known("ir_A") & known("ir_vr_V"))
+        hot_K = req.ambient_max_C + ZERO_CELSIUS_K
+        leak = reverse_current(parts.value("ir_A", 1e-6), parts.value("ir_vr_V", 1.0),
+                               parts.value("ir_t_C") + ZERO_CELSIUS_K, surge.line_max_V, hot_K,
+                               parts.value("ir_double_K"))
+        leak = np.where(lacking, np.nan, leak)
         if req.max_leakage_A is not None:
-            lacking = needs.missing("leakage")
-            hot_K = req.ambient_max_C + ZERO_CELSIUS_K
-            leak = reverse_current(parts.value("ir_A", 1e-6), parts.value("ir_vr_V", 1.0),
-                                   parts.value("ir_t_C") + ZERO_CELSIUS_K, surge.line_max_V, hot_K,
-                                   parts.value("ir_double_K"))
-            leak = np.where(lacking, np.nan, leak)
             checks.append(worst_case_check(
                 "leakage", "A", leak[:, None], np.full(count, req.max_leakage_A), [hot_low], "max",
                 "requirement max_leakage_A", reasons=with_missing("leakage"), invalid=lacking))
