@@ -37,6 +37,7 @@ def test_surge_clamp_bad_entry_is_marked_at_the_field(qtbot, window):
     view = window.requirement_view
     assert view.groups["tvs_clamp"].isVisible()
     assert not view.rows["supply_max_V"][1].isVisible()  # ambient only
+    assert view.rows["max_leakage_A"][1].isVisible()  # the leakage check at the line maximum
     type_into(qtbot, window, "surge.surge_source_ohm", "-2")
     qtbot.waitUntil(lambda: bool(window.bench.requirement.field_error("surge.surge_source_ohm")), timeout=3000)
     assert "-2 is below 0 Ω" in window.bench.requirement.field_error("surge.surge_source_ohm")
