@@ -388,7 +388,10 @@ def periodic_state(inductance, resistance, drop, supply, frequency, duty, zener_
             new = xa - r / slope
         outside = ~np.isfinite(new) | (new <= lo_a) | (new >= hi_a)
         new = np.where(outside, 0.5 * (lo_a + hi_a), new)
-        done = (np.abs(new - xa) < tolerance) | (np.abs(r) <= tolerance * t_off[active])
+        # Closed at this point: keep it (a step from an exact root may land on the bracket's end).
+        closed = np.abs(r) <= tolerance * t_off[active]
+        new = np.where(closed, xa, new)
+        done = closed | (np.abs(new - xa) < tolerance)
         x[active], lo[active], hi[active] = new, lo_a, hi_a
         active = active[~done]
     else:
