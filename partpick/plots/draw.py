@@ -334,8 +334,9 @@ def redraw(plot_item, plot: str, curves: dict, previous: list | None = None, *, 
     its ``section_options`` (``legend``, ``log_y``)."""
     if plot == "iv":
         plot = "breakdown" if curves.get("role") == "zener_shunt" else "forward"
-    # A role's own section (`Role.curve_plots`) draws with the default options.
     key, options = _PLOTS.get(plot, (plot, {}))
+    # The drawing options a role gives with its plot (`Role.curve_plots`: legend, log_x, log_y).
+    options = dict(options, **section_options)
     if key in ("forward", "breakdown"):
         options = dict(options, log_y=log_current)
     options = dict(options, **section_options)  # a role's own plot options (`Role.curve_plots`)

@@ -38,6 +38,8 @@ import numpy as np
 from scipy import constants
 from scipy.optimize import brentq
 
+from protection_parts import PROTECTION_COLUMNS, protection_rows
+
 OUT = Path(__file__).with_name("parts.csv")
 
 # Thermal voltage at 25 degC (T0 = 298.15 K), CODATA k and q.
@@ -51,8 +53,10 @@ COLUMNS = (
     "eg_eV", "is_temp_exponent", "model_source", "vf_points", "vf_max_V",
     "vf_max_at_A", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V",
     "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K",
-    "price", "lifecycle", "notes", "junction", "ifrm_A",
+    "junction", "price", "lifecycle", "notes",
 )
+# The coil-clamp and TVS columns (protection_parts.py), after the others.
+COLUMNS = COLUMNS[:-3] + tuple(c for c in PROTECTION_COLUMNS if c not in COLUMNS) + COLUMNS[-3:]
 
 MAKERS = {
     "QF": "Quillfen Semiconductor",
@@ -503,7 +507,7 @@ def forward_rows():
 
 
 def main() -> None:
-    rows = forward_rows() + zener_rows()
+    rows = forward_rows() + zener_rows() + protection_rows()
     numbers = [r["part_number"] for r in rows]
     duplicates = {p for p in numbers if numbers.count(p) > 1}
     if duplicates:

@@ -93,7 +93,8 @@ def test_example_covers_the_scenario(fresh_build):
         parts = library.list_parts()
     kinds = Counter(p["kind"] for p in parts)
     assert len(parts) >= 60
-    assert set(kinds) == {"rectifier", "signal", "schottky", "fast_recovery", "zener", "bridge"}
+    assert {"rectifier", "signal", "schottky", "fast_recovery", "zener", "tvs", "bridge"} <= set(kinds)
+    assert any(p["ifrm_A"] is not None and p["trr_s"] is not None for p in parts)  # coil-clamp diodes
     bridges = [p for p in parts if p["kind"] == "bridge"]
     assert {p["junction"] for p in bridges} == {"pn", "schottky"}  # SPEC §4a: invented bridges of both junctions
     assert any(p["ifrm_A"] for p in bridges) and any(p["ifrm_A"] is None for p in bridges)
