@@ -38,7 +38,7 @@ from partpick.physics.thermal import allowed_power
 
 __all__ = ["curves_for", "format_engineering", "corner_label", "AMBIENT_EXTENSION_K",
            "COMMON_SECTIONS", "CURVE_POINTS", "number", "record_forward_model", "record_thermal", "check_of",
-           "tj_limit_line", "power_fraction", "thermal_sections", "requirement_dict"]
+           "tj_limit_line", "power_fraction", "thermal_sections", "requirement_dict", "curves_for_many"]
 
 AMBIENT_EXTENSION_K = 10.0
 """The Tj-against-ambient curve extends this far beyond the ambient range [K]."""
@@ -284,3 +284,24 @@ def curves_for(requirement, part: dict, candidate: dict | None = None) -> dict:
     result.update({section: None for section, _title, _options in ROLES[role].curve_plots})
     result.update(ROLES[role].curves(req, part, candidate or {}, notes))
     return result
+
+
+def curves_for_many(requirement, parts: list[dict], candidates: list[dict | None]) -> list[dict]:
+    """`curves_for` of several parts under one requirement, in one call of the role (`Role.curves_many`)."""
+    from partpick.checks.roles import ROLES
+
+    req = requirement_dict(requirement)
+    role = req.get("role")
+    if role not in ROLES:
+        raise ValueError(f"requirement role must be one of {', '.join(ROLES)}, got {role!r}")
+    notes_list: list[list[str]] = [[] for _ in parts]
+    results = []
+    for part, notes in zip(parts, notes_list):
+        result = {"part_number": part.get("part_number"), "role": role, "notes": notes,
+                  **{name: None for name in COMMON_SECTIONS}}
+        result.update({section: None for section, _title, _options in ROLES[role].curve_plots})
+        results.append(result)
+    sections = ROLES[role].curves_many(req, list(parts), [c or {} for c in candidates], notes_list)
+    for result, found in zip(results, sections):
+        result.update(found)
+    return results

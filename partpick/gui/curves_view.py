@@ -251,17 +251,20 @@ class CurvesView(QWidget):
     # -- model → plots -------------------------------------------------------
     def refresh(self) -> None:
         """Recompute the curve data of the selected parts and redraw the visible tab."""
-        from partpick.checks.curves import curves_for
+        from partpick.checks.curves import curves_for_many
 
         result = self.result.result
         sets = []
         if result is not None:
             requirement = result["requirement"]
+            chosen = []
             for part_number in self.result.selected[:MAX_PARTS]:
                 part = self.library.get_part(part_number)
                 candidate = self.result.candidate(part_number)
                 if part is not None and candidate is not None:
-                    sets.append(curves_for(requirement, part, candidate))
+                    chosen.append((part, candidate))
+            if chosen:  # one call: a role may solve every plotted part at once
+                sets = curves_for_many(requirement, [p for p, _ in chosen], [c for _, c in chosen])
         self.curve_sets = sets
         role = result["requirement"]["role"] if result else "series"
         sections = self._role_sections.get(role, set())

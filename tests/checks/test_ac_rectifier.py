@@ -192,3 +192,20 @@ def test_cli_table_and_html_carry_the_mains_caution(tmp_path, capsysbinary):
     assert main(["check", str(good), "--library", str(lib), "--format", "csv"]) in (0, 3)
     header = capsysbinary.readouterr().out.decode("utf-8").splitlines()[0]
     assert "dc_min_V" in header and "switch_on_i2t_A2s" in header
+
+
+def test_curves_of_several_parts_in_one_solve_equal_one_by_one():
+    from partpick.checks.curves import curves_for_many
+
+    parts = [_bridge(), _diode(), _bridge("AC-B2", is_A=2e-8, rs_ohm=0.1)]
+    result = run_check(_req(), parts)
+    by_number = {c["part_number"]: c for c in result["candidates"]}
+    cands = [by_number[p["part_number"]] for p in parts if p["part_number"] in by_number]
+    kept = [p for p in parts if p["part_number"] in by_number]
+    many = curves_for_many(_req(), kept, cands)
+    for part, cand, got in zip(kept, cands, many):
+        one = curves_for(_req(), part, cand)
+        for section in ("ac_current", "forward", "junction_temperature"):
+            assert got[section]["title"] == one[section]["title"]
+            for a, b in zip(got[section]["curves"], one[section]["curves"]):
+                assert a["y"] == pytest.approx(b["y"], rel=0.01, abs=1e-6), (section, a["label"])

@@ -161,6 +161,11 @@ class AcRectifierRole(Role):
 
         return ac_rectifier_curves(requirement, part, candidate, notes)
 
+    def curves_many(self, requirement, parts, candidates, notes_list):
+        from partpick.checks.roles.ac_rectifier_curves import ac_rectifier_curves_many
+
+        return ac_rectifier_curves_many(requirement, parts, candidates, notes_list)
+
     # ------------------------------------------------------------------------------------------
     def evaluate(self, requirement, parts, limits) -> RoleResult:
         req = requirement

@@ -21,9 +21,10 @@ import numpy as np
 from partpick.checks.curves import (AMBIENT_EXTENSION_K, CURVE_POINTS, corner_label, format_engineering, number,
                                     record_forward_model, record_thermal, thermal_sections)
 from partpick.physics.constants import celsius_to_kelvin, kelvin_to_celsius
+from partpick.physics.junction import ForwardModel
 from partpick.physics.rectifier import rectifier_operating_point
 
-__all__ = ["ac_rectifier_curves", "worst_corner"]
+__all__ = ["ac_rectifier_curves", "ac_rectifier_curves_many", "worst_corner"]
 
 _THERMAL_POINTS = 21  # each point is a periodic steady state: fewer than the other roles' curves
 
@@ -43,50 +44,71 @@ def worst_corner(req: dict, candidate: dict) -> dict:
 
 
 def ac_rectifier_curves(req: dict, part: dict, candidate: dict, notes: list[str]) -> dict:
-    out = {"ac_cycle": None, "ac_current": None, "forward": None, "junction_temperature": None, "power": None}
-    model = record_forward_model(part, notes)
-    if model is None:
-        return out
-    vf_max, vf_at = number(part, "vf_max_V"), number(part, "vf_max_at_A")
-    if vf_max is not None and vf_at is not None:
-        model = model.with_max_vf(vf_max, vf_at)
-    rth, tj_max, pd, pd_ref = record_thermal(part, req, notes)
+    return ac_rectifier_curves_many(req, [part], [candidate], [notes])[0]
+
+
+def ac_rectifier_curves_many(req: dict, parts: list, candidates: list, notes_list: list) -> list[dict]:
+    """The sections of several parts from one vectorised solve (the window plots up to four).
+
+    Each part's row: element 0 its worst corner, then the ambient sweep of its Tj and power
+    curves at that corner's AC voltage, load and capacitance; a solve costs its steps, not
+    its elements, so one call for every part costs about what one part's does.
+    """
     ac = req["ac"]
     topology = ac["topology"]
-    per_package = 4.0 if part.get("kind") == "bridge" else 1.0
-    corner = worst_corner(req, candidate)
     f = float(ac["frequency_Hz"])
-    # One vectorised solve: element 0 the worst corner, then the ambient sweep of the Tj and power curves
-    # at the worst corner's AC voltage, load and capacitance (each call costs its steps, not its elements).
     amb_c = np.linspace(float(req["ambient_min_C"]) - AMBIENT_EXTENSION_K,
                         float(req["ambient_max_C"]) + AMBIENT_EXTENSION_K, _THERMAL_POINTS)
-    ambients = celsius_to_kelvin(np.concatenate([[corner["ambient_C"]], amb_c]))
+    outs = [{"ac_cycle": None, "ac_current": None, "forward": None, "junction_temperature": None, "power": None}
+            for _ in parts]
+    rows = []
+    for j, (part, candidate, notes) in enumerate(zip(parts, candidates, notes_list)):
+        model = record_forward_model(part, notes)
+        if model is None:
+            continue
+        vf_max, vf_at = number(part, "vf_max_V"), number(part, "vf_max_at_A")
+        if vf_max is not None and vf_at is not None:
+            model = model.with_max_vf(vf_max, vf_at)
+        rows.append((j, model, record_thermal(part, req, notes), worst_corner(req, candidate)))
+    if not rows:
+        return outs
+    col = lambda values: np.array(values, dtype=float)[:, None]  # noqa: E731 - one row per part
+    fields = ("saturation_current", "ideality", "series_resistance", "band_gap", "temperature_exponent",
+              "rs_temperature_exponent")
+    model = ForwardModel(*(col([float(np.asarray(getattr(r[1], name))) for r in rows]) for name in fields))
+    corners = [r[3] for r in rows]
+    ambients = celsius_to_kelvin(np.concatenate([col([c["ambient_C"] for c in corners]),
+                                                 np.broadcast_to(amb_c, (len(rows), amb_c.size))], axis=1))
+    per_package = col([4.0 if parts[r[0]].get("kind") == "bridge" else 1.0 for r in rows])
     solved = rectifier_operating_point(
-        topology, corner["vac_Vrms"], f, float(ac["source_ohm"]), corner["capacitance_F"], corner["load_A"], model,
-        ambients, rth, per_package, leakage_rated_voltage=number(part, "ir_vr_V", 1.0), record=True)
-    point = _element(solved, 0)
-    wave = point.cycle.waveform
-    pn = part.get("part_number", "")
-    where = " · ".join(x for x in (format_engineering(corner["vac_Vrms"], "V") + " rms",
-                                   corner_label(load_A=corner["load_A"], ambient_C=corner["ambient_C"]),
-                                   format_engineering(corner["capacitance_F"], "F")))
-    if wave is not None:
-        out["ac_cycle"], out["ac_current"] = _cycle_sections(pn, topology, wave, f, point, corner, where, ac)
-    out["forward"] = _forward_section(pn, model, point, corner, req, where, part)
-
-    sweep = _element(solved, slice(1, None))
-    tj = np.where(sweep.runaway, np.nan, kelvin_to_celsius(sweep.junction_temperature))
-    label = f"{'package' if per_package > 1 else 'diode'}, steady ({where.split(' · ')[0]}, " \
-            f"{format_engineering(corner['load_A'], 'A')}, {format_engineering(corner['capacitance_F'], 'F')})"
-    tj_curves = [{"label": f"Tj of the {label}", "x": amb_c, "y": tj, "role": "tj_forward"}]
-    out["junction_temperature"], out["power"] = thermal_sections(
-        part, candidate, "power", amb_c, tj_curves, np.where(sweep.runaway, np.nan, sweep.package_power), rth,
-        tj_max, pd, pd_ref, f"cycle-average power of the {label}", req)
-    return out
+        topology, col([c["vac_Vrms"] for c in corners]), f, float(ac["source_ohm"]),
+        col([c["capacitance_F"] for c in corners]), col([c["load_A"] for c in corners]), model, ambients,
+        col([r[2][0] for r in rows]), per_package,
+        leakage_rated_voltage=col([number(parts[r[0]], "ir_vr_V", 1.0) for r in rows]), record=True)
+    for k, (j, part_model, (rth, tj_max, pd, pd_ref), corner) in enumerate(rows):
+        part, candidate, out = parts[j], candidates[j], outs[j]
+        point = _element(solved, (k, 0))
+        wave = point.cycle.waveform
+        pn = part.get("part_number", "")
+        where = " · ".join((format_engineering(corner["vac_Vrms"], "V") + " rms",
+                            corner_label(load_A=corner["load_A"], ambient_C=corner["ambient_C"]),
+                            format_engineering(corner["capacitance_F"], "F")))
+        if wave is not None:
+            out["ac_cycle"], out["ac_current"] = _cycle_sections(pn, topology, wave, f, point, corner, where, ac)
+        out["forward"] = _forward_section(pn, part_model, point, corner, req, where, part)
+        sweep = _element(solved, (k, slice(1, None)))
+        tj = np.where(sweep.runaway, np.nan, kelvin_to_celsius(sweep.junction_temperature))
+        label = f"{'package' if per_package[k, 0] > 1 else 'diode'}, steady ({where.split(' · ')[0]}, " \
+                f"{format_engineering(corner['load_A'], 'A')}, {format_engineering(corner['capacitance_F'], 'F')})"
+        tj_curves = [{"label": f"Tj of the {label}", "x": amb_c, "y": tj, "role": "tj_forward"}]
+        out["junction_temperature"], out["power"] = thermal_sections(
+            part, candidate, "power", amb_c, tj_curves, np.where(sweep.runaway, np.nan, sweep.package_power), rth,
+            tj_max, pd, pd_ref, f"cycle-average power of the {label}", req)
+    return outs
 
 
 def _element(point, index):
-    """One element (or a slice) of a `RectifierPoint` solved over a 1-D array."""
+    """One element (or a slice) of a solved `RectifierPoint`: ``index`` into its element axes."""
     from dataclasses import fields, replace
 
     cycle = point.cycle

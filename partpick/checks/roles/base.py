@@ -106,6 +106,10 @@ class Role:
         """The role's curve sections of one part (see `partpick.checks.curves`); {} for none."""
         return {}
 
+    def curves_many(self, requirement: dict, parts: list, candidates: list, notes_list: list) -> list[dict]:
+        """The sections of several parts (a role may solve them in one vectorised call)."""
+        return [self.curves(requirement, p, c, n) for p, c, n in zip(parts, candidates, notes_list)]
+
     def evaluate(self, requirement, parts, limits) -> RoleResult:  # pragma: no cover - interface
         """Evaluate every candidate at every point.
 
