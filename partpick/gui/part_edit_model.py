@@ -15,7 +15,7 @@ import numpy as np
 
 from partpick.errors import InputError
 from partpick.gui.observer import Signal
-from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, PART_FIELDS, empty_part, part_problems
+from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, PART_FIELDS, empty_part, kind_group, part_problems
 from partpick.units import format_quantity, parse_quantity
 
 __all__ = ["PartEditModel", "parse_points", "format_points", "FitPreview"]
@@ -137,7 +137,7 @@ class PartEditModel:
             self.values[name] = value
         self._validate(old)
         self.field_changed.emit(name)
-        if name in ("vf_points", "kind", "eg_eV", "is_temp_exponent"):
+        if name in ("vf_points", "kind", "junction", "eg_eV", "is_temp_exponent"):
             self.fit_changed.emit()
 
     def set_value(self, name: str, value) -> None:
@@ -203,7 +203,7 @@ class PartEditModel:
         points = self.values.get("vf_points") or []
         if len(points) < 2:
             return FitPreview(error="Paste two or more (IF, VF) points to fit the forward model.", points=points)
-        schottky = self.values.get("kind") == "schottky"
+        schottky = kind_group(self.values.get("kind") or "", self.values.get("junction")) == "schottky"
         band_gap = self.values.get("eg_eV") or (0.69 if schottky else 1.11)  # SPEC §3 defaults
         exponent = self.values.get("is_temp_exponent") or (2.0 if schottky else 3.0)
         current = np.array([p[0] for p in points])

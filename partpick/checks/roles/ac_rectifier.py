@@ -75,8 +75,6 @@ _AC = RoleTable("ac", "AC rectifier", (
              "for a capacitive load (the usual datasheet note, from memory).", default=20.0, high=90.0),
 ))
 
-_CORNER_WORDS = ("vac", "load", "ambient", "capacitance")
-
 
 def ac_corners(requirement):
     """(vac [V rms], load [A], ambient [°C], capacitance [F]) of the 16 corners, Vac slowest, C fastest."""
