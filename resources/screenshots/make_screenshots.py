@@ -77,6 +77,15 @@ def main(out: Path, *, dark: bool = False) -> None:
     settle()
     window.grab().save(str(out / "zener_output_vs_supply.png"))
 
+    load_requirement_file(bench, ROOT / "resources" / "requirements" / "ac_mains_front_end.toml")
+    window.rechecker.run_now()
+    window.shortlist.select_rows([0])
+    window.curves.tabs.setCurrentWidget(window.curves.pages["ac_cycle"])
+    settle()
+    window.grab().save(str(out / "ac_rectifier_cycle.png"))
+    load_requirement_file(bench, ROOT / "resources" / "requirements" / "zener_5V1_reference.toml")
+    window.rechecker.run_now()
+
     window.shortlist.select_rows([0, 1, 2])
     compare = CompareDialog(bench, bench.result.selected, window)
     compare.show()
