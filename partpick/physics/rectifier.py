@@ -141,6 +141,7 @@ class CycleSolution:
     power_moments: tuple
     reverse_moment: np.ndarray
     window: tuple = ()           # (θ0, θ1) [rad] of the fine passes (phase 0 = zero crossing)
+    empty: np.ndarray | None = None  # no steady state: the source cannot supply the load (metrics NaN)
     waveform: dict | None = None
 
     def diode_power(self, saturation_current, ideality, series_resistance, temperature):
@@ -305,19 +306,26 @@ def _newton(circuit, v, theta0, theta1, steps, *, tolerance=1e-5, max_iterations
     """Close the cycle on the grid: Newton on F(V0) − V0 (dF/dV0 carried along the steps).
 
     Stops when the Newton step is below ``tolerance`` × crest (the step is taken: with
-    quadratic convergence what is left is of the order of its square); returns V0 and
-    the pass at the V0 before that last step (its peak and moments differ from the
-    final V0's by far less than the step-size error).
+    quadratic convergence what is left is of the order of its square); returns V0, the
+    pass at the V0 before that last step (its peak and moments differ from the final
+    V0's by far less than the step-size error) and the elements that cannot hold a
+    charge: started empty, the capacitor still ends the cycle lower (the source cannot
+    supply the load; a constant-current load would take it below zero).
     """
     tol = tolerance * circuit.e_peak + 1e-12
+    empty = np.zeros(v.shape, dtype=bool)
     for _ in range(max_iterations):
         res = circuit.run(v, theta0, theta1, steps, **run)
         residual = res["end"] - v
+        empty |= (v <= 0.0) & (residual < -1e-9 * circuit.e_peak)
         denom = np.minimum(res["sens"] - 1.0, -1e-12)
         step = np.clip(-residual / denom, -0.1 * circuit.e_peak, 0.1 * circuit.e_peak)
-        v = np.clip(v + step, 0.0, circuit.e_peak)
-        if np.all(np.abs(step) <= tol):
-            return v, res
+        closed = np.abs(residual) <= 1e-10 * circuit.e_peak  # e.g. no load: F − V0 flat near its root
+        step = np.where(empty | closed, 0.0, step)
+        moved = np.clip(v + step, 0.0, circuit.e_peak) - v
+        v = v + moved
+        if np.all(np.abs(moved) <= tol):
+            return v, res, empty
         if run.get("track") is not None:  # where the current flows, relative to the last peak
             run["track"] = 1e-4 * res["peak"]
     raise RuntimeError(f"rectifier cycle not closed after {max_iterations} Newton steps "
@@ -428,11 +436,13 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
         theta0 = np.asarray(warm.window[0], dtype=float).ravel().copy()
         theta1 = np.asarray(warm.window[1], dtype=float).ravel().copy()
         level = np.asarray(warm.steps).ravel()
-        for steps in np.unique(level):
-            idx = np.flatnonzero(level == steps)
+        empty = np.asarray(warm.empty).ravel().copy()
+        for steps in np.unique(level[~empty]):
+            idx = np.flatnonzero((level == steps) & ~empty)
             sub = circuit.subset(idx)
             # one Newton step from the neighbour's V0 (its error is of the order of the step squared)
-            v, res = _newton(sub, v0[idx], theta0[idx], theta1[idx], int(steps), tolerance=1e-3)
+            v, res, gone = _newton(sub, v0[idx], theta0[idx], theta1[idx], int(steps), tolerance=1e-3)
+            empty[idx] = gone
             res = sub.run(v, theta0[idx], theta1[idx], int(steps), heavy=True, record=record,
                           threshold=_CONDUCTION_SHARE * res["peak"])
             v0[idx] = v
@@ -440,25 +450,32 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
             if record:
                 samples = {"fin": res, "idx": idx}
     else:
-        # 1. coarse pass over the whole period: the cycle roughly closed, and where the current flows
+        # 1. coarse pass over the whole period: the cycle roughly closed, and where the current flows.
+        # F(V0) − V0 falls with V0 (dF/dV0 < 1): started empty, a capacitor that still ends lower has
+        # no steady state at all (the source cannot supply the load).
         zeros = np.zeros(size)
         whole = np.full(size, span)
-        v0, flow = _newton(circuit, v0, zeros, whole, coarse_steps, tolerance=1e-3, track=np.zeros(size))
+        from_empty = circuit.run(zeros, zeros, whole, coarse_steps)["end"]
+        empty = from_empty < -1e-9 * e_peak
+        v0 = np.where(empty, 0.0, v0)
+        v0, flow, gone = _newton(circuit, v0, zeros, whole, coarse_steps, tolerance=1e-3, track=np.zeros(size))
+        empty |= gone
         dtheta = span / coarse_steps
         some = flow["last"] > 0
         theta0 = np.where(some, np.maximum((flow["first"] - 3) * dtheta, 0.0), 0.0)
         theta1 = np.where(some, np.minimum((flow["last"] + 2) * dtheta, span), span)
         # 2. fine passes over the window, doubling the steps until the peak current settles
-        active = np.arange(size)
+        active = np.flatnonzero(~empty)
         previous = np.full(size, np.nan)
         steps = window_steps
         widened = np.zeros(size, dtype=bool)
         while active.size:
             sub = circuit.subset(active)
-            v, res = _newton(sub, v0[active], theta0[active], theta1[active], steps)
+            v, res, gone = _newton(sub, v0[active], theta0[active], theta1[active], steps)
             v0[active] = v
+            empty[active] = gone
             peak = res["peak"]
-            settled = np.abs(peak - previous[active]) <= peak_tolerance * peak + 1e-9
+            settled = (np.abs(peak - previous[active]) <= peak_tolerance * peak + 1e-9) | gone
             if record:  # the samples are kept for every element at one common level
                 settled[:] = settled.all()
             previous[active] = peak
@@ -477,7 +494,9 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
                     keep = ~cut
                     done = done[keep]
                     fin = {k: (_take(val, keep) if k != "samples" else val) for k, val in fin.items()}
-                _store(out, done, fin, circuit.IL[done], steps)
+                done_ok = ~empty[done]
+                _store(out, done[done_ok], {k: _take(val, done_ok) for k, val in fin.items() if k != "samples"},
+                       circuit.IL[done[done_ok]], steps)
                 if record:
                     samples = {"fin": fin, "idx": done}
             active = active[~settled]
@@ -485,6 +504,12 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
                 raise RuntimeError(f"rectifier peak current did not settle within {peak_tolerance:.1%} by "
                                    f"{steps} steps per window ({active.size} elements)")
             steps *= 2
+    # A cycle that takes the capacitor to zero has no steady state with a constant-current load.
+    empty |= ~(out["dc_min"] > 0.0) & (out["steps"] > 0)
+    for key in out:
+        if key != "steps":
+            out[key][empty] = np.nan
+    out["steps"][empty] = 0
     waveform = _waveform(circuit, samples, v0, theta0, theta1, shape) if record else None
     reshape = (lambda x: x.reshape(shape))
     return CycleSolution(
@@ -494,7 +519,8 @@ def periodic_steady_state(topology: str, vac_rms, frequency, source_resistance, 
         conduction_angle_deg=reshape(out["angle"]), capacitor_rms=reshape(out["cap_rms"]),
         start_voltage=reshape(v0), steps=reshape(out["steps"]),
         power_moments=(reshape(out["m0"]), reshape(out["m1"]), reshape(out["m2"])),
-        reverse_moment=reshape(out["rev"]), window=(reshape(theta0), reshape(theta1)), waveform=waveform)
+        reverse_moment=reshape(out["rev"]), window=(reshape(theta0), reshape(theta1)), empty=reshape(empty),
+        waveform=waveform)
 
 
 def _take(value, keep):
@@ -558,6 +584,7 @@ class RectifierPoint:
     diode_power: np.ndarray            # one diode's cycle-average forward power [W]
     package_power: np.ndarray          # the package's: all its diodes [W]
     runaway: np.ndarray                # no forward thermal balance below 1000 K
+    empty: np.ndarray                  # no steady state at all: the source cannot supply the load
 
 
 def rectifier_operating_point(topology: str, vac_rms, frequency, source_resistance, capacitance, load_current,
@@ -601,14 +628,15 @@ def rectifier_operating_point(topology: str, vac_rms, frequency, source_resistan
         tj, runaway = _thermal_balance(cycle, model, Ta, Rth * count, tj)
     Is, n, Rs = model.at(tj)
     power = cycle.diode_power(Is, n, Rs, tj)
-    return RectifierPoint(cycle, tj, power, power * count, runaway)
+    empty = np.broadcast_to(cycle.empty, tj.shape)
+    return RectifierPoint(cycle, tj, power, power * count, runaway & ~empty, empty)
 
 
 def _thermal_balance(cycle, model, Ta, gain, start):
-    """Newton on g(T) = T − Ta − gain·P(T) with the cycle's moments held."""
+    """Newton on g(T) = T − Ta − gain·P(T) with the cycle's moments held (no power where no steady state)."""
     def g(T):
         Is, n, Rs = model.at(T)
-        return T - Ta - gain * cycle.diode_power(Is, n, Rs, T)
+        return T - Ta - gain * np.nan_to_num(cycle.diode_power(Is, n, Rs, T))
 
     T = np.array(start, dtype=float)
     for _ in range(50):
@@ -640,9 +668,9 @@ def switch_on_surge(topology: str, vac_rms, frequency, source_resistance, capaci
     through R. Backward Euler then steps to ``duration``; the step count
     doubles until peak and ∫i²dt change by less than ``tolerance``.
 
-    The grid is t_k = duration·(k/N)^p with p ≥ 1 chosen so that the first step is
-    h0 = min(τ/20, duration/N0)·N0/N, τ = (R + legs·Rs)·C: fine where the current
-    falls fast, coarser later.
+    The grid is geometric, t_k = h0·(r^k − 1) with t_N = duration and h0 = min(τ, duration),
+    τ = (R + legs·Rs)·C: fine where the current falls fast (a fifth of the steps within the
+    first 20·τ of a fast pulse), coarser later.
     """
     _check_topology(topology)
     legs = legs_in_path(topology)
@@ -666,16 +694,16 @@ def switch_on_surge(topology: str, vac_rms, frequency, source_resistance, capaci
     previous = None
     steps = initial_steps
     while True:
-        # t_k = duration·(k/N)^p: the first step h0 = min(τ/20, duration/N)·(N0/N), the later ones growing
-        h0 = np.minimum(tau / 20.0, dur / initial_steps) * (initial_steps / steps)
-        p = np.maximum(np.log(dur / h0) / np.log(steps), 1.0)
+        # geometric grid t_k = h0·(r^k − 1), t_N = duration: about 80 of 400 steps in the first 20·h0
+        h0 = np.minimum(tau, dur)
+        log_r = np.log1p(dur / h0) / steps
         vc = np.zeros_like(vac)
         t = np.zeros_like(vac)
         i_prev = i0.copy()
         peak = i0.copy()
         i2t = np.zeros_like(vac)
         for k in range(1, steps + 1):
-            t_new = dur * (k / steps) ** p
+            t_new = dur if k == steps else h0 * np.expm1(k * log_r)
             h = t_new - t
             e = e_peak * np.cos(omega * t_new)
             if full_wave:

@@ -8,6 +8,7 @@ against solve_ivp in tests/physics/test_rectifier.py.
 
 from __future__ import annotations
 
+import json
 import math
 
 import pytest
@@ -209,3 +210,15 @@ def test_curves_of_several_parts_in_one_solve_equal_one_by_one():
             assert got[section]["title"] == one[section]["title"]
             for a, b in zip(got[section]["curves"], one[section]["curves"]):
                 assert a["y"] == pytest.approx(b["y"], rel=0.01, abs=1e-6), (section, a["label"])
+
+
+def test_a_load_the_source_cannot_supply_is_a_reason_not_a_crash():
+    # 14 V rms behind 100 Ω delivers at most ~0.1 A into a short: a 1 A load has no steady state.
+    result = run_check(_req({"source_ohm": 100.0}), [_bridge(ifrm_A=20.0)])
+    text = json.dumps(result, allow_nan=False)  # no NaN anywhere
+    cand = result["candidates"][0]
+    assert cand["passed"] is False
+    fc = _checks(cand)["forward_current"]
+    assert fc["value"] is None and "cannot supply the load" in fc["reason"]
+    assert "cannot supply the load" in _checks(cand)["junction_temp"]["reason"]
+    assert cand["metrics"]["dc_min_V"] is None and "NaN" not in text

@@ -152,3 +152,15 @@ def test_bad_input_names_the_value():
         periodic_steady_state("full", 12.0, 50.0, 1.0, 1e-3, 0.5, 1e-9, 1.8, 0.02, 300.0)
     with pytest.raises(ValueError, match="source_resistance"):
         periodic_steady_state("bridge", 12.0, 50.0, 0.0, 1e-3, 0.5, 1e-9, 1.8, 0.02, 300.0)
+
+
+def test_a_load_above_what_the_source_can_deliver_has_no_steady_state():
+    # Into a short (Vc = 0) the bridge delivers on average about (2/π)·(√2·Vac − 2·VF)/R: the
+    # upper bound of any DC load (ideal-diode estimate, common practice) — 14 V behind 100 Ω: ~0.11 A.
+    loads = np.array([0.02, 1.0])
+    c = periodic_steady_state("bridge", 14.0, 50.0, 100.0, 1e-3, loads, 1e-9, 1.8, 0.02, 300.0)
+    assert c.empty.tolist() == [False, True]
+    assert np.isfinite(c.dc_min[0]) and np.isnan(c.dc_min[1]) and np.isnan(c.peak_current[1])
+    point = rectifier_operating_point("bridge", 14.0, 50.0, 100.0, 1e-3, loads, ForwardModel(1e-9, 1.8, 0.02),
+                                      300.0, 50.0, 4.0)
+    assert point.empty.tolist() == [False, True] and not point.runaway.any()

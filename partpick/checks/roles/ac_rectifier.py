@@ -221,14 +221,18 @@ class AcRectifierRole(Role):
         on = _switch_on(req, model, parts, surge_R, on_C, cap.max())
         fwd_mask = forward_bad[:, None]
         nan_f = lambda a: np.where(fwd_mask, np.nan, a)  # noqa: E731 - mask parts without a model
-        tj_C = nan_f(np.where(cyc.runaway, np.nan, cyc.junction_temperature - ZERO_CELSIUS_K))
-        rev_tj_C = np.where(reverse_bad[:, None] | rev["runaway"], np.nan, rev["tj_K"] - ZERO_CELSIUS_K)
+        tj_C = nan_f(np.where(cyc.runaway | cyc.empty, np.nan, cyc.junction_temperature - ZERO_CELSIUS_K))
+        rev_tj_C = np.where(reverse_bad[:, None] | rev["runaway"] | cyc.empty, np.nan, rev["tj_K"] - ZERO_CELSIUS_K)
 
         def with_missing(check, extra=()):
             return [(needs.missing(check), needs.reason(check))] + list(extra)
 
-        forward_runaway = (cyc.runaway.any(axis=1), "forward thermal runaway: the cycle-average power heats the "
-                                                    "junction faster than RthJA sheds it")
+        no_state = cyc.empty.any(axis=1) & ~forward_bad
+        forward_runaway = (no_state | cyc.runaway.any(axis=1),
+                           object_array(["no steady state: the source cannot supply the load at some corner (even "
+                                         "from empty the capacitor ends each cycle lower)" if e else
+                                         "forward thermal runaway: the cycle-average power heats the junction faster "
+                                         "than RthJA sheds it" for e in no_state]))
         checks = []
         # reverse_voltage: the conservative PIV against VRRM × the policy's reverse limit
         rev_pct, rev_src = limit_array(limits, groups, "reverse_pct")
@@ -245,18 +249,21 @@ class AcRectifierRole(Role):
         rated = derated_current(Ta_K[None, :], parts.value("if_avg_A", 1.0)[:, None], thermal.tj_max_K[:, None],
                                 if_ref_K[:, None])
         cap_share = 1.0 - ac.capacitive_derate_pct / 100.0
-        carried = np.where(bridge_part[:, None], load[None, :], cyc.cycle.average_current)
+        carried = np.where(cyc.empty, np.nan,
+                           np.where(bridge_part[:, None], load[None, :], cyc.cycle.average_current))
         cur_source = object_array([
             f"{cur_src[g]}: {v:g} % of IF(AV) derated at Ta, less {ac.capacitive_derate_pct:g} % for a "
             f"capacitive load ([ac] capacitive_derate_pct)" for g, v in enumerate(_group_values(limits, "current_pct"))
         ])[groups]
         checks.append(worst_case_check(
             "forward_current", "A", nan_f(carried), rated * cap_share * cur_pct[:, None] / 100.0, steady_ids, "max",
-            cur_source, reasons=with_missing("forward_current"), invalid=needs.missing("forward_current")))
+            cur_source, reasons=with_missing("forward_current", [forward_runaway]),
+            invalid=needs.missing("forward_current")))
 
         # repetitive_peak: the diode's peak against IFRM × the current limit; "not rated" where no IFRM
         peak = nan_f(cyc.cycle.peak_current)
-        checks.append(_repetitive_peak(peak, parts, cur_pct, cur_src, groups, limits, steady_ids, needs))
+        checks.append(_repetitive_peak(peak, parts, cur_pct, cur_src, groups, limits, steady_ids, needs,
+                                       forward_runaway))
 
         # surge: ∫i²dt over the IFSM pulse against IFSM²·t/2 × s², and the peak against IFSM × s
         surge_pct, surge_src = limit_array(limits, groups, "surge_pct")
@@ -326,7 +333,7 @@ class AcRectifierRole(Role):
         if req.max_leakage_A is not None:
             checks.append(worst_case_check(
                 "leakage", "A", leakage, np.full(count, req.max_leakage_A), reverse_ids, "max",
-                "requirement max_leakage_A", reasons=with_missing("leakage", [rev_runaway_reason]),
+                "requirement max_leakage_A", reasons=with_missing("leakage", [rev_runaway_reason, forward_runaway]),
                 invalid=needs.missing("leakage")))
             checks[-1].note = note
 
@@ -416,12 +423,13 @@ def _reverse(parts, cyc, rth, per_package, piv):
     ir_vr = parts.value("ir_vr_V", 1.0)[:, None]
     tj_fwd = cyc.junction_temperature
     ir_at = lambda T: reverse_current(ir_A, ir_vr, ir_t_K, ir_vr, T, d)  # noqa: E731 - IR at its test voltage
-    p_start = ir_at(tj_fwd) * cyc.cycle.reverse_moment
+    moment = np.nan_to_num(cyc.cycle.reverse_moment)  # no steady state: masked by the caller
+    p_start = ir_at(tj_fwd) * moment
     state = reverse_thermal_state(p_start, d, tj_fwd, rth[:, None] * per_package[:, None])
     runaway = np.asarray(state.runaway, dtype=bool)
     tj = np.where(runaway, tj_fwd, state.junction_temperature)
     return {"tj_K": tj, "runaway": runaway,
-            "power": ir_at(tj) * cyc.cycle.reverse_moment,
+            "power": ir_at(tj) * moment,
             "leakage": reverse_current(ir_A, ir_vr, ir_t_K, piv, tj, d)}
 
 
@@ -435,15 +443,15 @@ def _switch_on(req, model, parts, surge_R, ambients_C, capacitance):
     return {"peak": sol.peak_current, "i2t": sol.i2t}
 
 
-def _repetitive_peak(peak, parts, cur_pct, cur_src, groups, limits, ids, needs) -> CheckArray:
+def _repetitive_peak(peak, parts, cur_pct, cur_src, groups, limits, ids, needs, no_state) -> CheckArray:
     """The peak against IFRM × the current limit; where IFRM is not known: reported "not rated"."""
     rated = parts.known("ifrm_A")
     check = worst_case_check(
         "repetitive_peak", "A", peak, parts.raw["ifrm_A"] * cur_pct / 100.0, ids, "max",
         _sources(cur_src, groups, "{} % of IFRM", limits, "current_pct"),
-        reasons=[(needs.missing("repetitive_peak"), needs.reason("repetitive_peak"))],
+        reasons=[(needs.missing("repetitive_peak"), needs.reason("repetitive_peak")), no_state],
         invalid=needs.missing("repetitive_peak"))
-    unrated = ~rated & ~needs.missing("repetitive_peak")
+    unrated = ~rated & ~needs.missing("repetitive_peak") & np.isfinite(peak).all(axis=1)
     if unrated.any():
         value, col = worst_value(peak, "max")
         check.value[unrated] = value[unrated]
