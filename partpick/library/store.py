@@ -22,6 +22,7 @@ from pathlib import Path
 from sqlalchemy import delete, exc, insert, select
 
 from partpick.errors import InputError, LibraryError
+from partpick.inputs import bounded_list
 from partpick.library import csvio
 from partpick.library.csvio import CsvInputError, CsvProblem, ImportCancelled
 from partpick.library.db import (
@@ -38,7 +39,7 @@ from partpick.library.db import (
 from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, MODEL_FIELDS, PART_FIELDS, part_problems
 from partpick.library.migrate import prepare_database
 from partpick.library.models import Part, Policy, VfPoint
-from partpick.text import normalise_text
+from partpick.text import normalise_text, text_problem
 
 __all__ = ["Library", "ImportSummary", "open_library", "prepare_part"]
 
@@ -431,7 +432,7 @@ class Library:
         """
         record, problems = prepare_part(part)
         if problems:
-            raise InputError("; ".join(message for _, message in problems))
+            raise InputError(bounded_list([message for _, message in problems]))
         number = record["part_number"]
         with self._unit_of_work(f"save part {number}") as session:
             taken = session.scalar(select(Part).where(Part.part_number == number))
@@ -707,6 +708,11 @@ class Library:
         name = policy.get("name") if isinstance(policy, dict) else None
         if not isinstance(name, str) or not name.strip() or len(name) > 64 or name != name.strip():
             raise InputError(f"policy name {name!r} is not valid (1 to 64 characters, no surrounding spaces)")
+        for key, value, breaks in (("name", name, False), ("description", policy.get("description"), True)):
+            if isinstance(value, str):
+                reason = text_problem(value, line_breaks=breaks, printable_only=not breaks)
+                if reason is not None:
+                    raise InputError(f"policy {name!r}: {key} {reason} (not allowed in text)")
         try:
             body = json.dumps(policy, sort_keys=True, allow_nan=False, ensure_ascii=False)
         except (TypeError, ValueError) as error:
