@@ -369,6 +369,9 @@ def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
     """
     if not bench.has_library("Import CSV"):
         return None
+    if bench.read_only:  # e.g. a CSV dropped onto a window showing a read-only library
+        bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: the library is read-only.")
+        return None
     library = bench.library.library
     try:
         library.import_csv(path, dry_run=True)
