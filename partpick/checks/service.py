@@ -58,7 +58,8 @@ from partpick.errors import InputError
 __all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_candidates", "resolve_policy"]
 
 _LIMIT_UNITS = {"reverse_pct": "%", "current_pct": "%", "power_pct": "%", "tj_cap_C": "°C", "tj_margin_K": "K",
-                "resistor_power_pct": "%", "surge_pct": "%"}
+                "resistor_power_pct": "%", "surge_pct": "%",
+                "pulse_power_pct": "%"}
 _MAX_YIELD_RUNS = 1_000_000
 
 
@@ -190,7 +191,7 @@ def evaluate(requirement, parts, *, policies: dict | None = None, keep: tuple[st
 # JSON building
 
 def _policy_block(evaluation: Evaluation) -> dict:
-    groups = sorted({("zener" if k == "zener" else "schottky" if k == "schottky" else "pn")
+    groups = sorted({(k if k in ("zener", "schottky", "tvs") else "pn")
                      for k in evaluation.role.kinds}, key=GROUPS.index)
     block = {
         "name": evaluation.policy.name,

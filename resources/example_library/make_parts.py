@@ -38,6 +38,8 @@ import numpy as np
 from scipy import constants
 from scipy.optimize import brentq
 
+from protection_parts import PROTECTION_COLUMNS, protection_rows
+
 OUT = Path(__file__).with_name("parts.csv")
 
 # Thermal voltage at 25 degC (T0 = 298.15 K), CODATA k and q.
@@ -53,6 +55,8 @@ COLUMNS = (
     "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K",
     "price", "lifecycle", "notes",
 )
+# The coil-clamp and TVS columns (protection_parts.py), after the others.
+COLUMNS = COLUMNS[:-3] + tuple(c for c in PROTECTION_COLUMNS if c not in COLUMNS) + COLUMNS[-3:]
 
 MAKERS = {
     "QF": "Quillfen Semiconductor",
@@ -474,7 +478,7 @@ def forward_rows():
 
 
 def main() -> None:
-    rows = forward_rows() + zener_rows()
+    rows = forward_rows() + zener_rows() + protection_rows()
     numbers = [r["part_number"] for r in rows]
     duplicates = {p for p in numbers if numbers.count(p) > 1}
     if duplicates:
