@@ -21,9 +21,27 @@ class Corners:
         self.supply_V = np.asarray(supply_V, dtype=float)
         self.load_A = np.asarray(load_A, dtype=float)
         self.ambient_C = np.asarray(ambient_C, dtype=float)
+        # Which end of each range a corner sits at (0 = min, 1 = max), in `corners_of` order.
+        index = np.arange(self.supply_V.size)
+        self.load_end = (index // 2) % 2
+        self.ambient_end = index % 2
 
     def __len__(self) -> int:
         return self.supply_V.size
+
+    def for_parts(self, count: int, overrides=None) -> tuple[np.ndarray, np.ndarray]:
+        """(P, C) ambient [°C] and load [A] at each corner, per-part maxima replacing the requirement's.
+
+        ``overrides`` is a `partpick.checks.roles.base.Overrides` (or None): its
+        ``ambient_max_C`` and ``load_max_A`` arrays (P,) replace the max ends.
+        """
+        ambient = np.broadcast_to(self.ambient_C, (count, len(self))).copy()
+        load = np.broadcast_to(self.load_A, (count, len(self))).copy()
+        if overrides is not None and overrides.ambient_max_C is not None:
+            ambient[:, self.ambient_end == 1] = np.asarray(overrides.ambient_max_C, dtype=float)[:, None]
+        if overrides is not None and overrides.load_max_A is not None:
+            load[:, self.load_end == 1] = np.asarray(overrides.load_max_A, dtype=float)[:, None]
+        return ambient, load
 
 
 def corners_of(requirement) -> Corners:

@@ -15,7 +15,50 @@ import numpy as np
 
 from partpick.checks.results import CheckArray, PointTable
 
-__all__ = ["Role", "RoleResult"]
+__all__ = ["Role", "RoleResult", "Overrides"]
+
+
+@dataclass
+class Overrides:
+    """Per-candidate values replacing the requirement's (operating limits, sensitivity).
+
+    Each array has shape (P,), one value per candidate; None keeps the
+    requirement's value. A role that honours these can be bisected over all
+    candidates in one call (`partpick.checks.limits`).
+
+    Attributes
+    ----------
+    ambient_max_C : ndarray (P,), optional
+        The highest ambient [°C] (the corners' max end and every "hottest ambient" state).
+    load_max_A : ndarray (P,), optional
+        The highest load current [A].
+    thermal_resistance : ndarray (P,), optional
+        RthJA in use [K/W], replacing the part's, the design's or the mount's.
+    choices : dict of str to ndarray (P,)
+        The role's discrete choices held fixed (from `Role.choices` of a base result),
+        e.g. the chosen E-series resistor and its power class.
+    """
+
+    ambient_max_C: np.ndarray | None = None
+    load_max_A: np.ndarray | None = None
+    thermal_resistance: np.ndarray | None = None
+    choices: dict = field(default_factory=dict)
+
+    def ambient_max(self, requirement, count: int) -> np.ndarray:
+        """(P,) the highest ambient in force [°C]."""
+        if self.ambient_max_C is None:
+            return np.full(count, float(requirement.ambient_max_C))
+        return np.asarray(self.ambient_max_C, dtype=float)
+
+    def load_max(self, requirement, count: int) -> np.ndarray:
+        """(P,) the highest load in force [A]."""
+        if self.load_max_A is None:
+            return np.full(count, float(requirement.load_max_A))
+        return np.asarray(self.load_max_A, dtype=float)
+
+    def choice(self, name: str, default):
+        """A held discrete choice (P,), or ``default`` where the base check is being made."""
+        return self.choices.get(name, default)
 
 
 @dataclass
@@ -64,11 +107,18 @@ class Role:
     kinds: tuple[str, ...] = ()
     objective_metrics: dict[str, str] = {}
     supports_yield: bool = False
+    #: Part columns that enter the role's checks (the inputs of "what sets the worst case").
+    part_inputs: tuple[str, ...] = ()
 
     def considers(self, kind: str) -> bool:
         return kind in self.kinds
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:  # pragma: no cover - interface
+    def choices(self, result: RoleResult) -> dict:
+        """The discrete choices of a base result to hold fixed in `Overrides` (none by default)."""
+        return {}
+
+    def evaluate(self, requirement, parts, limits,
+                 overrides: Overrides | None = None) -> RoleResult:  # pragma: no cover - interface
         """Evaluate every candidate at every point.
 
         Parameters
@@ -78,6 +128,9 @@ class Role:
             The candidates (all of kinds this role considers).
         limits : dict
             `partpick.checks.policy.resolve_limits` output (group → key → ResolvedLimit).
+        overrides : Overrides, optional
+            Per-candidate ambient max, load max, RthJA in use and held choices; the
+            `PointTable` still names the requirement's corners.
         """
         raise NotImplementedError
 
