@@ -33,14 +33,15 @@ class Corners:
         """(P, C) ambient [°C] and load [A] at each corner, per-part maxima replacing the requirement's.
 
         ``overrides`` is a `partpick.checks.roles.base.Overrides` (or None): its
-        ``ambient_max_C`` and ``load_max_A`` arrays (P,) replace the max ends.
+        ``ambient_max_C`` and ``load_max_A`` arrays (P,) replace the max ends (NaN: not for that part).
         """
         ambient = np.broadcast_to(self.ambient_C, (count, len(self))).copy()
         load = np.broadcast_to(self.load_A, (count, len(self))).copy()
-        if overrides is not None and overrides.ambient_max_C is not None:
-            ambient[:, self.ambient_end == 1] = np.asarray(overrides.ambient_max_C, dtype=float)[:, None]
-        if overrides is not None and overrides.load_max_A is not None:
-            load[:, self.load_end == 1] = np.asarray(overrides.load_max_A, dtype=float)[:, None]
+        for table, given, ends in ((ambient, getattr(overrides, "ambient_max_C", None), self.ambient_end),
+                                   (load, getattr(overrides, "load_max_A", None), self.load_end)):
+            if given is not None:  # NaN keeps the requirement's value for that part
+                given = np.asarray(given, dtype=float)[:, None]
+                table[:, ends == 1] = np.where(np.isfinite(given), given, table[:, ends == 1])
         return ambient, load
 
 

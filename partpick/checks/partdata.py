@@ -298,7 +298,8 @@ def thermal_data(parts: PartArrays, requirement, thermal_resistance=None) -> The
         The requirement (its ``rth_ja_K_per_W`` and ``[thermal]`` mount), or — the older
         form — the design's RthJA alone.
     thermal_resistance : ndarray (P,), optional
-        RthJA in use per part, replacing every other source (operating limits).
+        RthJA in use per part, replacing every other source (operating limits);
+        NaN keeps that part's own path.
 
     Notes
     -----
@@ -381,9 +382,10 @@ def thermal_data(parts: PartArrays, requirement, thermal_resistance=None) -> The
         missing = ~tj_known | ~(ambient_pd | have_rth)
         rth = np.where(missing, 100.0, datasheet_rth)
         in_use = (at_lead | at_case) & ~missing
-    if thermal_resistance is not None:
-        rth = np.asarray(thermal_resistance, dtype=float)
-        in_use = np.ones(count, dtype=bool)
+    if thermal_resistance is not None:  # NaN rows keep their own path
+        given = np.isfinite(np.asarray(thermal_resistance, dtype=float))
+        rth = np.where(given, thermal_resistance, rth)
+        in_use = in_use | given
     power = np.where(missing, 1.0, power)
     return ThermalData(np.asarray(rth, float), np.asarray(power, float), tj_max_K, pd_ref_K, missing,
                        in_use=in_use, junction_lead=junction_lead, junction_case=junction_case, notes=notes,

@@ -18,12 +18,19 @@ from partpick.checks.results import CheckArray, PointTable
 __all__ = ["Role", "RoleResult", "Overrides"]
 
 
+def _or_requirement(given, value, count: int) -> np.ndarray:
+    if given is None:
+        return np.full(count, float(value))
+    given = np.asarray(given, dtype=float)
+    return np.where(np.isfinite(given), given, float(value))
+
+
 @dataclass
 class Overrides:
     """Per-candidate values replacing the requirement's (operating limits, sensitivity).
 
-    Each array has shape (P,), one value per candidate; None keeps the
-    requirement's value. A role that honours these can be bisected over all
+    Each array has shape (P,), one value per candidate; None (or NaN for one
+    candidate) keeps the requirement's value. A role that honours these can be bisected over all
     candidates in one call (`partpick.checks.limits`).
 
     Attributes
@@ -46,15 +53,11 @@ class Overrides:
 
     def ambient_max(self, requirement, count: int) -> np.ndarray:
         """(P,) the highest ambient in force [°C]."""
-        if self.ambient_max_C is None:
-            return np.full(count, float(requirement.ambient_max_C))
-        return np.asarray(self.ambient_max_C, dtype=float)
+        return _or_requirement(self.ambient_max_C, requirement.ambient_max_C, count)
 
     def load_max(self, requirement, count: int) -> np.ndarray:
         """(P,) the highest load in force [A]."""
-        if self.load_max_A is None:
-            return np.full(count, float(requirement.load_max_A))
-        return np.asarray(self.load_max_A, dtype=float)
+        return _or_requirement(self.load_max_A, requirement.load_max_A, count)
 
     def choice(self, name: str, default):
         """A held discrete choice (P,), or ``default`` where the base check is being made."""

@@ -106,8 +106,10 @@ class ZenerShuntRole(Role):
 
     def choices(self, result: RoleResult) -> dict:
         """The chosen E-series resistor and its power class, held fixed for limits and sensitivity."""
-        return {"resistor_ohm": result.internals["resistor_ohm"],
-                "resistor_class_W": result.metrics["resistor_power_class_W"]}
+        held = {"resistor_class_W": result.metrics["resistor_power_class_W"]}
+        if result.internals["resistor_chosen"].any():  # a resistor given by the requirement is an input
+            held["resistor_ohm"] = result.internals["resistor_ohm"]
+        return held
 
     def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
@@ -305,6 +307,7 @@ class ZenerShuntRole(Role):
             "iz_min_A": iz_min, "vz_high_at_iz_min_V": vz_high, "vz_high_ambient_C": vz_high_ambient,
             "resistor_ohm": resistance, "resistor_tolerance_pct": np.full(count, tolerance_pct),
             "resistor_source": object_array(resistor_source, count),
+            "resistor_chosen": np.full(count, zr.resistor_ohm is None),
             "rth_ja_K_per_W": rth, "pd_W": thermal.power_rating, "tj_max_C": tj_max_C, "tj_limit_C": tj_lim,
             "feasible": feasible, "thermal_path_note": thermal.notes, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
         }

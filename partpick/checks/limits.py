@@ -1,0 +1,211 @@
+"""Operating limits: how far each candidate can be pushed before a check fails (SPEC §3a).
+
+For every candidate, by bisection vectorised over the candidates and run on
+the role's own checks (all of them must pass), with the discrete choices of
+the base check held fixed (`Role.choices`: the chosen E-series resistor and its
+power class):
+
+- ``max_ambient_C``: the highest ``ambient_max_C``, bracket [ambient_min_C, Tj max], to 0.1 K;
+- ``max_load_A``: the highest ``load_max_A``, bracket [0, 10 × load_max_A], to 0.1 %;
+- ``max_rth_ja_K_per_W``: the largest RthJA in use, bracket [0, 10 × RthJA in use], to 0.1 %;
+- from the last, for a heatsink mount ``max_rth_sa_K_per_W`` (the smallest heatsink that
+  holds: RthJA max − RthJC − RthCS) and for a board mount ``min_copper_area_mm2``
+  (the ln-area line inverted; none "beyond the datasheet's range").
+
+The three searches run side by side: the candidates are stacked three times
+and every step is one call of the role's ``evaluate`` with per-candidate
+`Overrides`. Nothing here knows a role: a new role gets its limits by
+honouring `Overrides` in its ``evaluate``.
+
+A limit is NaN where none exists (the part fails even at the bracket's lower
+end), with a note saying so; a limit at the bracket's upper end holds at least
+that far (noted).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from partpick.checks.results import object_array
+from partpick.checks.roles.base import Overrides, Role, RoleResult
+from partpick.physics.thermal_path import copper_area_for_thermal_resistance, heatsink_for_thermal_resistance
+
+__all__ = ["OperatingLimits", "operating_limits", "all_pass", "LIMIT_KEYS", "AMBIENT_TOL_K", "RELATIVE_TOL"]
+
+LIMIT_KEYS = ("max_ambient_C", "max_load_A", "max_rth_ja_K_per_W", "max_rth_sa_K_per_W", "min_copper_area_mm2")
+AMBIENT_TOL_K = 0.1      # SPEC §3a: to 0.1 K
+RELATIVE_TOL = 1e-3      # SPEC §3a: to 0.1 %
+_SPAN = 10.0             # brackets reach 10 × the requirement's value
+_FLOOR = 1e-3            # the lower bracket ends of load and RthJA (the physics wants > 0): 0.1 % of the value
+_MAX_STEPS = 40
+
+
+@dataclass
+class OperatingLimits:
+    """Operating limits of P candidates.
+
+    Attributes
+    ----------
+    values : dict of str to ndarray (P,)
+        `LIMIT_KEYS` that apply (NaN where none exists).
+    notes : dict of str to ndarray of object (P,)
+        Per key, a remark where the number needs one (none exists, bracket end,
+        beyond the datasheet's range, extrapolated).
+    summary : ndarray of object (P,)
+        One line per candidate ("passes up to 71 °C ambient").
+    passed : ndarray of bool (P,)
+        Whether the base check passed.
+    """
+
+    values: dict[str, np.ndarray]
+    notes: dict[str, np.ndarray]
+    summary: np.ndarray
+    passed: np.ndarray = field(default=None)
+
+
+def all_pass(result: RoleResult) -> np.ndarray:
+    """(P,) True where every check on the part's sheet passes."""
+    ok = np.ones(result.checks[0].passed.shape, dtype=bool) if result.checks else np.zeros(0, dtype=bool)
+    for check in result.checks:
+        ok &= check.passed | ~check.present
+    return ok
+
+
+def _tile_choices(choices: dict, index: np.ndarray, copies: int) -> dict:
+    return {k: np.tile(np.asarray(v)[index], copies) for k, v in choices.items()}
+
+
+def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleResult,
+                     index=None) -> OperatingLimits:
+    """Operating limits of the candidates ``index`` (default all) of a base evaluation.
+
+    Parameters
+    ----------
+    role : Role
+    requirement : Requirement
+    parts : PartArrays
+        The candidates ``base`` was evaluated over.
+    limits : dict
+        `resolve_limits` output, as for the base evaluation.
+    base : RoleResult
+        The base evaluation (its discrete choices are held fixed).
+    index : array_like of int, optional
+        Which candidates (positions in ``parts``).
+    """
+    index = np.arange(parts.count) if index is None else np.asarray(index, dtype=int)
+    P = index.size
+    passed = all_pass(base)[index] if P else np.zeros(0, dtype=bool)
+    if P == 0:
+        empty = np.zeros(0)
+        return OperatingLimits({k: empty for k in LIMIT_KEYS[:3]}, {}, object_array([]), passed)
+    rth_in_use = np.asarray(base.internals["rth_ja_K_per_W"], dtype=float)[index]
+    tj_max_C = np.asarray(base.internals["tj_max_C"], dtype=float)[index]
+    req = requirement
+    stacked = parts.subset(np.tile(index, 3))
+    choices = _tile_choices(role.choices(base), index, 3)
+    nan = np.full(P, np.nan)
+
+    lo = np.concatenate([np.full(P, float(req.ambient_min_C)), np.full(P, _FLOOR * max(req.load_max_A, 1e-3)),
+                         _FLOOR * rth_in_use])
+    hi = np.concatenate([np.maximum(tj_max_C, req.ambient_min_C + AMBIENT_TOL_K),
+                         np.full(P, _SPAN * max(req.load_max_A, 1e-3)), _SPAN * rth_in_use])
+
+    def passes(trial: np.ndarray) -> np.ndarray:
+        over = Overrides(ambient_max_C=np.concatenate([trial[:P], nan, nan]),
+                         load_max_A=np.concatenate([nan, trial[P:2 * P], nan]),
+                         thermal_resistance=np.concatenate([nan, nan, trial[2 * P:]]), choices=choices)
+        return all_pass(role.evaluate(req, stacked, limits, over))
+
+    ok_lo = passes(lo)
+    ok_hi = passes(hi)
+    a, b = lo.copy(), hi.copy()  # invariant where searched: passes at a, fails at b
+    search = ok_lo & ~ok_hi
+    tol_abs = np.concatenate([np.full(P, AMBIENT_TOL_K), np.zeros(2 * P)])
+    for _ in range(_MAX_STEPS):
+        width = b - a
+        open_ = search & (width > np.maximum(tol_abs, RELATIVE_TOL * np.abs(b)))
+        if not open_.any():
+            break
+        mid = 0.5 * (a + b)
+        trial = np.where(open_, mid, a)
+        ok = passes(trial)
+        a = np.where(open_ & ok, mid, a)
+        b = np.where(open_ & ~ok, mid, b)
+    found = np.where(search, a, np.where(ok_hi, hi, np.nan))
+    names = ("max_ambient_C", "max_load_A", "max_rth_ja_K_per_W")
+    values = {n: found[k * P:(k + 1) * P] for k, n in enumerate(names)}
+    notes: dict[str, np.ndarray] = {}
+    words = {"max_ambient_C": lambda j: f"fails at every ambient from ambient_min_C ({req.ambient_min_C:g} °C)",
+             "max_load_A": lambda j: "fails even with no load",
+             "max_rth_ja_K_per_W": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
+    ends = {"max_ambient_C": lambda j: "holds up to Tj max (the search's end)",
+            "max_load_A": lambda j: f"holds at least to {hi[P + j]:.3g} A (10 × load_max_A, the search's end)",
+            "max_rth_ja_K_per_W": lambda j: f"holds at least to {hi[2 * P + j]:.3g} K/W (10 × RthJA in use)"}
+    for k, n in enumerate(names):
+        text = object_array(None, P)
+        for j in range(P):
+            if not ok_lo[k * P + j]:
+                text[j] = words[n](j)
+            elif ok_hi[k * P + j]:
+                text[j] = ends[n](j)
+        notes[n] = text
+
+    mount = getattr(req, "thermal", None)
+    rth_max = values["max_rth_ja_K_per_W"]
+    if mount is not None and mount.mount == "heatsink":
+        jc = parts.raw["rth_jc_K_per_W"][index]
+        sa = np.where(np.isfinite(rth_max) & np.isfinite(jc),
+                      heatsink_for_thermal_resistance(np.where(np.isfinite(rth_max), rth_max, 0.0),
+                                                      np.where(np.isfinite(jc), jc, 0.0), mount.interface), np.nan)
+        text = object_array(None, P)
+        none = np.isfinite(sa) & (sa <= 0)
+        text[none] = (f"no heatsink holds: RthJC + RthCS ({mount.interface:g} K/W) already exceed the largest "
+                      "RthJA that passes")
+        sa = np.where(none, np.nan, sa)
+        values["max_rth_sa_K_per_W"] = sa
+        notes["max_rth_sa_K_per_W"] = text
+    elif mount is not None and mount.mount == "board":
+        fields = [parts.raw[f][index] for f in ("rth_ja_area_mm2", "rth_ja_K_per_W", "rth_ja_large_area_mm2",
+                                                "rth_ja_large_K_per_W")]
+        known = np.logical_and.reduce([np.isfinite(f) for f in fields]) & np.isfinite(rth_max) & (rth_max > 0)
+        safe = [np.where(known, f, d) for f, d in zip(fields, (100.0, 100.0, 1000.0, 50.0))]
+        safe[3] = np.minimum(safe[3], safe[1])
+        area, extrapolated = copper_area_for_thermal_resistance(np.where(known, rth_max, 1.0), *safe)
+        area = np.where(known, area, np.nan)
+        text = object_array(None, P)
+        beyond = known & np.isinf(area)
+        text[beyond] = "beyond the datasheet's range: even its larger copper area does not hold"
+        text[known & np.asarray(extrapolated) & ~beyond] = ("extrapolated below the datasheet's smaller copper "
+                                                           "area (ln-area line extended)")
+        values["min_copper_area_mm2"] = np.where(beyond, np.nan, area)
+        notes["min_copper_area_mm2"] = text
+    return OperatingLimits(values, notes, _summaries(values, notes, passed, req), passed)
+
+
+def _summaries(values: dict, notes: dict, passed: np.ndarray, req) -> np.ndarray:
+    """The one-line words per candidate: where a failing part would pass, how far a passing one holds."""
+    P = passed.size
+    out = object_array(None, P)
+    for j in range(P):
+        parts_ = []
+        amb = values["max_ambient_C"][j]
+        if np.isfinite(amb):
+            parts_.append(f"up to {amb:.1f} °C ambient")
+        load = values["max_load_A"][j]
+        if np.isfinite(load):
+            parts_.append(f"up to {load:.3g} A load")
+        if "max_rth_sa_K_per_W" in values and np.isfinite(values["max_rth_sa_K_per_W"][j]):
+            parts_.append(f"on a heatsink of RthSA ≤ {values['max_rth_sa_K_per_W'][j]:.3g} K/W")
+        elif "min_copper_area_mm2" in values and np.isfinite(values["min_copper_area_mm2"][j]):
+            parts_.append(f"on ≥ {values['min_copper_area_mm2'][j]:.3g} mm² of copper")
+        elif np.isfinite(values["max_rth_ja_K_per_W"][j]):
+            parts_.append(f"with RthJA ≤ {values['max_rth_ja_K_per_W'][j]:.3g} K/W")
+        if not parts_:
+            out[j] = "no operating limit found at which every check passes"
+            continue
+        lead = "holds " if passed[j] else "passes "
+        # A failing part passes where one limit alone is moved, the others kept at the requirement's values.
+        out[j] = lead + ", or ".join(parts_) if not passed[j] else lead + ", ".join(parts_)
+    return out
