@@ -253,4 +253,5 @@ def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
     lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
                   "and measurements."]
+    lines += [f"CAUTION: {clean_text(c)}" for c in result.get("cautions") or []]
     return ("\n".join(lines) + "\n").encode("utf-8")

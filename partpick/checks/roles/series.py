@@ -57,6 +57,14 @@ class SeriesRole(Role):
     part_inputs = ("is_A", "n", "rs_ohm", "eg_eV", "is_temp_exponent", "rs_temp_exponent", "vf_max_V", "vrrm_V",
                    "if_avg_A", "if_ref_C", "pd_W", "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "rth_jc_K_per_W",
                    "rth_jl_K_per_W", "rth_ja_large_K_per_W", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "ifsm_A")
+    curve_plots = (("forward", "I–V", {}), ("forward", "I–V (log)", {"log_y": True}),
+                   ("junction_temperature", "Junction temperature", {"legend": "bottom_right"}),
+                   ("power", "Power", {"legend": "top_right"}))
+
+    def curves(self, requirement, part, candidate, notes):
+        from partpick.checks.roles.series_curves import series_curves
+
+        return series_curves(requirement, part, candidate, notes)
 
     def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
