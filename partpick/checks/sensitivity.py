@@ -23,6 +23,7 @@ import numpy as np
 
 from partpick.checks.limits import _tile_choices
 from partpick.checks.policy import resolve_limits
+from partpick.checks.role_table import TableValues
 from partpick.checks.roles.base import Overrides, Role, RoleResult
 
 __all__ = ["Sensitivity", "sensitivities", "smallest_margin", "requirement_inputs", "TOP_INPUTS"]
@@ -112,12 +113,22 @@ def requirement_inputs(requirement) -> list[tuple[str, str | None, float]]:
             out.append((f.name, table, float(value)))
         if table == "thermal" and sub.mount == "heatsink" and sub.rth_cs_K_per_W is None:
             out.append(("rth_cs_K_per_W", "thermal", sub.interface))  # enters through its default
+    for values in getattr(requirement, "tables", ()):  # a role's own table ([ac], [coil]…), defaults included
+        for key, value in values.to_dict().items():
+            if isinstance(value, bool) or not isinstance(value, (int, float)):
+                continue
+            out.append((key, values._table.name, float(value)))
     return out
 
 
 def _with_value(requirement, key: str, table: str | None, value: float):
     if table is None:
         return dataclasses.replace(requirement, **{key: value})
+    for k, values in enumerate(getattr(requirement, "tables", ())):
+        if values._table.name == table:
+            tables = list(requirement.tables)
+            tables[k] = TableValues(values._table, {**values.given, key: value})
+            return dataclasses.replace(requirement, tables=tuple(tables))
     return dataclasses.replace(requirement, **{table: dataclasses.replace(getattr(requirement, table),
                                                                           **{key: value})})
 
