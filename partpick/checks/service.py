@@ -58,7 +58,7 @@ from partpick.checks.sensitivity import Sensitivity, sensitivities
 from partpick.errors import InputError
 
 __all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_candidates", "resolve_policy",
-           "analyse_candidates", "limits_json", "ANALYSED_CANDIDATES"]
+           "analyse_candidates", "analyse_parts", "limits_json", "not_analysed_block", "ANALYSED_CANDIDATES"]
 
 _LIMIT_UNITS = {"reverse_pct": "%", "current_pct": "%", "power_pct": "%", "tj_cap_C": "°C", "tj_margin_K": "K",
                 "resistor_power_pct": "%", "surge_pct": "%"}
@@ -280,6 +280,33 @@ def limits_json(limits: OperatingLimits, j: int) -> tuple[dict, dict]:
     return metrics, {"summary": limits.summary[j], "notes": notes}
 
 
+def analyse_parts(requirement, parts, part_numbers, *, policies: dict | None = None) -> dict[str, dict]:
+    """Operating limits and sensitivity of the named candidates, as the JSON result carries them.
+
+    For the window: the selected part first, the rest of the shortlist after. Each part's
+    numbers equal those of ``run_check`` (a role evaluates every part on its own).
+
+    Returns
+    -------
+    dict
+        part number → ``{"metrics": {...limits}, "operating_limits": {...}, "sensitivity": [...]}``.
+    """
+    numbers = [n for n in dict.fromkeys(part_numbers)]
+    if not numbers:
+        return {}
+    wanted = set(numbers)
+    records = parts.parts if isinstance(parts, PartArrays) else parts
+    chosen = [p for p in records if p.get("part_number") in wanted]
+    ev = evaluate(requirement, chosen, policies=policies, keep=tuple(numbers))
+    index = np.array([ev.index_of(n) for n in numbers], dtype=int)
+    limits, sens = analyse_candidates(ev, index)
+    out = {}
+    for j, number in enumerate(numbers):
+        metrics, block = limits_json(limits, j)
+        out[number] = {"metrics": metrics, "operating_limits": block, "sensitivity": sens.entries[j]}
+    return out
+
+
 def _add_limits_and_sensitivity(evaluation: Evaluation, index, entries: list[dict], skipped: int) -> None:
     index = np.asarray(index, dtype=int)
     if index.size:
@@ -291,10 +318,15 @@ def _add_limits_and_sensitivity(evaluation: Evaluation, index, entries: list[dic
             entry["operating_limits"] = block
             entry["sensitivity"] = sens.entries[j]
         else:
-            entry["operating_limits"] = {"summary": None, "notes": {}, "reason": (
-                f"not computed: operating limits and sensitivity are computed for the first "
-                f"{index.size} candidates listed ({skipped} more listed)")}
+            entry["operating_limits"] = not_analysed_block(index.size, skipped)
             entry["sensitivity"] = None
+
+
+def not_analysed_block(analysed: int, skipped: int) -> dict:
+    """The ``operating_limits`` of a listed candidate beyond the first ``analysed`` (none computed)."""
+    return {"summary": None, "notes": {}, "reason": (
+        f"not computed: operating limits and sensitivity are computed for the first {analysed} candidates "
+        f"listed ({skipped} more listed)")}
 
 
 def run_check(requirement, parts: list[dict], *, policies: dict | None = None, library: dict | None = None,

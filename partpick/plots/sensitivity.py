@@ -8,12 +8,24 @@ margin; to the left, it eats into it.
 
 from __future__ import annotations
 
+import numpy as np
 import pyqtgraph as pg
 
 __all__ = ["draw_sensitivity", "bar_labels"]
 
 _RAISES = (35, 139, 69)
 _LOWERS = (215, 48, 39)
+
+
+def _plain_bottom_axis(axis) -> None:
+    """No SI scaling on the margin axis: "% points" takes no prefix, and pyqtgraph would otherwise
+    scale a unitless range below 1 by 1000 (its default enable ranges) and keep that scale."""
+    axis.setSIPrefixEnableRanges(((np.inf, np.inf),))
+    axis.enableAutoSIPrefix(False)
+    axis.autoSIPrefixScale = 1.0
+    axis.labelUnitPrefix = ""
+    axis.picture = None
+    axis.update()
 
 
 def bar_labels(entries: list[dict]) -> list[str]:
@@ -28,6 +40,7 @@ def draw_sensitivity(plot_item: pg.PlotItem, entries: list[dict] | None, *, titl
     """
     plot_item.clear()
     plot_item.setTitle(title or "What sets the worst case")
+    _plain_bottom_axis(plot_item.getAxis("bottom"))
     items: list = []
     left = plot_item.getAxis("left")
     if not entries:
@@ -53,9 +66,7 @@ def draw_sensitivity(plot_item: pg.PlotItem, entries: list[dict] | None, *, titl
     left.setTicks([[(y, label) for y, label in zip(ys, labels)]])
     left.setStyle(tickTextWidth=max(len(t) for t in labels) * 7, autoExpandTextSpace=True)
     left.setWidth(max(len(t) for t in labels) * 7 + 16)  # room for the input names
-    bottom = plot_item.getAxis("bottom")
-    bottom.enableAutoSIPrefix(False)  # "% points" takes no SI prefix
-    bottom.setLabel("smallest margin change for the step", units="% points")
+    plot_item.getAxis("bottom").setLabel("margin change [% points]")
     span = max(abs(v) for v in values) or 1.0
     plot_item.setXRange(-1.1 * span if min(values) < 0 else -0.05 * span,
                         1.1 * span if max(values) > 0 else 0.05 * span, padding=0)
