@@ -141,7 +141,7 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
              "max_load_A": lambda j: "fails even with no load",
              "max_rth_ja_K_per_W": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
     ends = {"max_ambient_C": lambda j: "holds up to Tj max (the search's end)",
-            "max_load_A": lambda j: f"holds at least to {hi[P + j]:.3g} A (10 × load_max_A, the search's end)",
+            "max_load_A": lambda j: f"holds at least to {_amperes(hi[P + j])} (10 × load_max_A, the search's end)",
             "max_rth_ja_K_per_W": lambda j: f"holds at least to {hi[2 * P + j]:.3g} K/W (10 × RthJA in use)"}
     for k, n in enumerate(names):
         text = object_array(None, P)
@@ -181,10 +181,19 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
                                                            "area (ln-area line extended)")
         values["min_copper_area_mm2"] = np.where(beyond, np.nan, area)
         notes["min_copper_area_mm2"] = text
-    return OperatingLimits(values, notes, _summaries(values, notes, passed, req), passed)
+    failing = [[c.name for c in base.checks if c.present[i] and not c.passed[i]] for i in index]
+    return OperatingLimits(values, notes, _summaries(values, notes, passed, failing), passed)
 
 
-def _summaries(values: dict, notes: dict, passed: np.ndarray, req) -> np.ndarray:
+def _amperes(value: float) -> str:
+    """A current as people write it: 5.52 mA, 2.1 A."""
+    for scale, unit in ((1.0, "A"), (1e-3, "mA"), (1e-6, "µA")):
+        if abs(value) >= scale or unit == "µA":
+            return f"{value / scale:.3g} {unit}"
+    return f"{value:.3g} A"
+
+
+def _summaries(values: dict, notes: dict, passed: np.ndarray, failing: list[list[str]]) -> np.ndarray:
     """The one-line words per candidate: where a failing part would pass, how far a passing one holds."""
     P = passed.size
     out = object_array(None, P)
@@ -195,7 +204,7 @@ def _summaries(values: dict, notes: dict, passed: np.ndarray, req) -> np.ndarray
             parts_.append(f"up to {amb:.1f} °C ambient")
         load = values["max_load_A"][j]
         if np.isfinite(load):
-            parts_.append(f"up to {load:.3g} A load")
+            parts_.append(f"up to {_amperes(load)} load")
         if "max_rth_sa_K_per_W" in values and np.isfinite(values["max_rth_sa_K_per_W"][j]):
             parts_.append(f"on a heatsink of RthSA ≤ {values['max_rth_sa_K_per_W'][j]:.3g} K/W")
         elif "min_copper_area_mm2" in values and np.isfinite(values["min_copper_area_mm2"][j]):
@@ -203,7 +212,8 @@ def _summaries(values: dict, notes: dict, passed: np.ndarray, req) -> np.ndarray
         elif np.isfinite(values["max_rth_ja_K_per_W"][j]):
             parts_.append(f"with RthJA ≤ {values['max_rth_ja_K_per_W'][j]:.3g} K/W")
         if not parts_:
-            out[j] = "no operating limit found at which every check passes"
+            out[j] = ("no ambient, load or thermal resistance alone makes every check pass (failing: "
+                      f"{', '.join(failing[j]) or 'none'})")
             continue
         lead = "holds " if passed[j] else "passes "
         # A failing part passes where one limit alone is moved, the others kept at the requirement's values.
