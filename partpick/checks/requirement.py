@@ -583,8 +583,10 @@ def _zener_table(reader: _Reader, table) -> ZenerRequirement:
 
 def requirement_from_toml(text: str, source: str = "requirement") -> Requirement:
     """Parse and validate requirement TOML text; see `requirement_from_dict`."""
+    from partpick.inputs import parse_toml
+
     try:
-        data = tomllib.loads(text)
+        data = parse_toml(text, source)  # bounded: at most 32 levels of nesting
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{source}: not valid TOML: {exc}") from exc
     return requirement_from_dict(data, source, text=text)
@@ -600,11 +602,10 @@ def load_requirement(path: str | Path) -> Requirement:
         and column), or a key is missing, unknown or out of range (the message
         names the line, key and value).
     """
+    from partpick.inputs import read_input_bytes
+
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise InputError(f"{path}: cannot read the requirement file ({exc.strerror or exc})") from exc
+    raw = read_input_bytes(path, "requirement file")  # a regular file of at most 256 MiB
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:

@@ -196,7 +196,9 @@ def _composite_svg(widget: QWidget, path, title: str) -> None:
         widget.render(painter, QPoint(), QRegion(), QWidget.RenderFlag.DrawChildren)
     finally:
         painter.end()
-    Path(path).write_bytes(bytes(buffer.data()))
+    from partpick.outputs import write_output
+
+    write_output(path, bytes(buffer.data()))
 
 
 class CurvesView(QWidget):
