@@ -1,9 +1,10 @@
 """Operating limits and "What sets the worst case" in the window (SPEC §3a, §6).
 
-`LimitsComputer` (Qt-free apart from a zero-delay timer) fills them into the
-latest result: the shortlist's check runs without them (they cost about
-twenty evaluations per candidate), then the selected part's limits are
-computed at once and the rest of the first `SHOWN` candidates right after,
+`LimitsComputer` (Qt-free apart from two timers) fills them into the latest
+result: the shortlist's check runs without them (they cost about twenty
+evaluations per candidate); once the shortlist and curves are drawn, the
+selected part's limits are computed, and the rest of the first `SHOWN`
+candidates right after,
 each by `partpick.checks.service.analyse_parts` — the numbers of
 ``partpick check``'s JSON. `LimitsPanel` shows the selected part's limits and
 draws its sensitivity with `partpick.plots.draw_sensitivity` (the report's
@@ -48,6 +49,11 @@ class LimitsComputer(QObject):
         self._job = None  # (requirement, parts, policies) of the result being filled
         self.updated = Signal()
         self.failed = ""
+        # Both steps wait for the event loop, so the shortlist and the curves are drawn first.
+        self._first = QTimer(self)
+        self._first.setSingleShot(True)
+        self._first.setInterval(0)
+        self._first.timeout.connect(self._fill_selected)
         self._timer = QTimer(self)
         self._timer.setSingleShot(True)
         self._timer.setInterval(REST_DELAY_MS)
@@ -68,16 +74,19 @@ class LimitsComputer(QObject):
         result = self._bench.result.result
         self._result_id = id(result) if result is not None else None
         self._job = self._inputs() if result is not None else None
-        self._fill(self._bench.result.selected[:1])
+        self._first.start()
         self._timer.start()
 
     def _selection_changed(self) -> None:
+        self._first.start()
+
+    def _fill_selected(self) -> None:
         self._fill(self._bench.result.selected[:1])
 
     @property
     def pending(self) -> bool:
-        """The rest of the shown candidates is still to come."""
-        return self._timer.isActive()
+        """The selected part's or the rest of the shown candidates' limits are still to come."""
+        return self._first.isActive() or self._timer.isActive()
 
     def _fill_rest(self) -> None:
         # The shown candidates in one call, as ``partpick check`` computes them (the selected one
@@ -120,6 +129,7 @@ class LimitsComputer(QObject):
         self.updated.emit()
 
     def shutdown(self) -> None:
+        self._first.stop()
         self._timer.stop()
 
 
