@@ -184,8 +184,6 @@ class LimitsPanel(QWidget):
             self.shortlist.table_model.set_extra_columns(("max_ambient_C",) if on else ())
 
     def _update(self) -> None:
-        from partpick.plots import draw_sensitivity
-
         if self.shortlist is not None and self.column_box.isChecked():
             self.shortlist.table_model.refresh_extra()
         number = self.model.selected[0] if self.model.selected else None
@@ -195,8 +193,10 @@ class LimitsPanel(QWidget):
             self.summary.setText(self.computer.failed)
             for label in self.values.values():
                 label.setText("")
-            draw_sensitivity(self.plot.getPlotItem(), None)
+            self.plot.getPlotItem().clear()  # partpick.plots loads at the first drawing, after start-up
             return
+        from partpick.plots import draw_sensitivity
+
         self.title.setText(f"<b>Operating limits of {candidate['part_number']}</b>")
         block = candidate.get("operating_limits") or {}
         self.summary.setText(self.computer.failed or block.get("summary") or block.get("reason")
