@@ -28,8 +28,8 @@ __all__ = ["PART_DEFAULTS", "PartArrays", "Needs", "ThermalData", "thermal_data"
 # The name `Needs` uses for "a Pd rated at the ambient" (a lead- or case-rated Pd does not give RthJA).
 AMBIENT_PD = "pd_W rated at ambient"
 
-GROUP_CODES = {"pn": 0, "schottky": 1, "zener": 2}
-_GROUP_NAMES = ("pn", "schottky", "zener")
+GROUP_CODES = {"pn": 0, "schottky": 1, "zener": 2, "tvs": 3}
+_GROUP_NAMES = ("pn", "schottky", "zener", "tvs")
 
 # Defaults the checker applies to optional part fields (not stored in the
 # library). Pairs are (pn and Zener, Schottky) where they differ.
@@ -85,7 +85,7 @@ class PartArrays:
         # Kinds outside KINDS are never candidates; they keep the pn code.
         self.group = np.full(self.count, GROUP_CODES["pn"], dtype=np.int8)
         for kind in KINDS:
-            # TVS parts have pulse-power limits of their own, not a diode group's.
+            # TVS parts have pulse-power limits of their own (group "tvs"), not a diode group's.
             self.group[self.kind == kind] = GROUP_CODES.get(kind_group(kind), GROUP_CODES["pn"])
         bridge_schottky = (self.kind == "bridge") & (self.junction == "schottky")
         self.group[bridge_schottky] = GROUP_CODES["schottky"]

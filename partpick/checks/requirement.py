@@ -361,7 +361,7 @@ def _number(reader: _Reader, key: str, value, rule: tuple, table: str | None = N
     too_low = value < low if low_inclusive else value <= low
     if too_low or value > high:
         op = "≤" if low_inclusive else "<"
-        what = "must not be negative" if low == 0 and low_inclusive else "is out of range"
+        what = "must not be negative" if low == 0 and low_inclusive and too_low else "is out of range"
         reader.fail(key, f"{value:g} {what} (allowed: {low:g} {op} value ≤ {high:g})", table)
     return value
 

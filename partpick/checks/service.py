@@ -61,7 +61,8 @@ __all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_c
            "analyse_candidates", "analyse_parts", "limits_json", "not_analysed_block", "ANALYSED_CANDIDATES"]
 
 _LIMIT_UNITS = {"reverse_pct": "%", "current_pct": "%", "power_pct": "%", "tj_cap_C": "°C", "tj_margin_K": "K",
-                "resistor_power_pct": "%", "surge_pct": "%"}
+                "resistor_power_pct": "%", "surge_pct": "%",
+                "pulse_power_pct": "%"}
 _MAX_YIELD_RUNS = 1_000_000
 # Operating limits and sensitivity cost about 20 evaluations each: they are computed for the
 # candidates a reader looks at (SPEC §9: the 20 shown), not for a whole 10,000-part list.
@@ -196,7 +197,7 @@ def evaluate(requirement, parts, *, policies: dict | None = None, keep: tuple[st
 # JSON building
 
 def _policy_block(evaluation: Evaluation) -> dict:
-    groups = sorted({("zener" if k == "zener" else "schottky" if k == "schottky" else "pn")
+    groups = sorted({(k if k in ("zener", "schottky", "tvs") else "pn")
                      for k in evaluation.role.kinds}, key=GROUPS.index)
     block = {
         "name": evaluation.policy.name,

@@ -121,7 +121,7 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
              help="Largest acceptable forward drop."),
     ReqField("min_output_V", "Min output", unit="V", group="Limits", roles=("series",),
              help="Lowest acceptable output voltage (supply − drop)."),
-    ReqField("max_leakage_A", "Max leakage", unit="A", group="Limits", roles=("series",), minimum=0.0,
+    ReqField("max_leakage_A", "Max leakage", unit="A", group="Limits", roles=("series", "tvs_clamp"), minimum=0.0,
              help="Largest acceptable reverse leakage at the hottest ambient."),
     ReqField("rth_ja_K_per_W", "Board RthJA", unit="K/W", group="Limits", minimum=0.0,
              help="The design's own junction-to-ambient thermal resistance; replaces every part's."),

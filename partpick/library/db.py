@@ -117,6 +117,27 @@ def server_read_only(engine: Engine) -> bool:
     return bool(row)
 
 
+# One key for partpick's write lock on a server (any constant works; this one spells "ppck").
+_WRITE_LOCK_KEY = 0x7070636B
+
+
+def _serialise_server_writers(engine: Engine, busy_timeout_s: float) -> None:
+    """PostgreSQL: a writing transaction takes partpick's advisory lock first, as SQLite's BEGIN IMMEDIATE does.
+
+    Two imports at once then run one after the other (the second reads what the
+    first committed before merging its rows), instead of colliding on a part
+    number; readers are never blocked. A writer that waits longer than the busy
+    timeout gets "lock timeout", which `library_errors` words as "library is busy".
+    """
+    busy_ms = int(busy_timeout_s * 1000)
+
+    @event.listens_for(engine, "begin")
+    def _on_begin(connection):
+        if connection.get_execution_options().get("partpick_write", False):
+            connection.exec_driver_sql(f"SET LOCAL lock_timeout = {busy_ms}")
+            connection.exec_driver_sql(f"SELECT pg_advisory_xact_lock({_WRITE_LOCK_KEY})")
+
+
 def make_engine(url: URL, *, busy_timeout_s: float = DEFAULT_BUSY_TIMEOUT_S, read_only: bool = False) -> Engine:
     """An engine for the library at ``url``, set up as described in the module docstring.
 
@@ -124,7 +145,10 @@ def make_engine(url: URL, *, busy_timeout_s: float = DEFAULT_BUSY_TIMEOUT_S, rea
     journal mode, so a library in a read-only folder or file can be read.
     """
     if url.get_backend_name() != "sqlite":
-        return create_engine(url, pool_pre_ping=True)
+        engine = create_engine(url, pool_pre_ping=True)
+        if url.get_backend_name() == "postgresql":
+            _serialise_server_writers(engine, busy_timeout_s)
+        return engine
     if read_only:
         path = sqlite_path(url)
         engine = create_engine(url, creator=lambda: sqlite_read_only_connect(path, busy_timeout_s))

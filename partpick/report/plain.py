@@ -246,7 +246,7 @@ def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
         if deltas:
             lines += ["", "Changes against the reference part:"]
             for number, delta in deltas:
-                items = [f"{k} {delta_text(v, k)}" for k, v in delta.items()]
+                items = [f"{k} {delta_text(v, k)}" for k, v in delta.items() if v is not None]
                 lines.append(f"  {clean_text(number)}: " + ", ".join(items))
         lines += limits_lines(result.get("candidates", []))
     else:

@@ -13,6 +13,7 @@ import datetime as _dt
 import html
 
 from partpick import __version__
+from partpick.library.fields import FIELD_NAMES
 from partpick.report.plain import delta_text, pass_count_text, shortlist_rows
 from partpick.report.words import (
     CAUTIONS,
@@ -283,13 +284,8 @@ def _metrics_table(candidate: dict) -> str:
     return _table(["Metric", "Key", "Worst-case value"], rows, numeric={2})
 
 
-_PART_FIELDS_SHOWN = ("kind", "manufacturer", "package", "datasheet", "vrrm_V", "if_avg_A", "if_ref_C", "ifsm_A",
-                      "ifsm_ms", "pd_W", "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "is_A", "n", "rs_ohm",
-                      "rs_temp_exponent", "eg_eV", "is_temp_exponent", "model_source", "vf_max_V", "vf_max_at_A",
-                      "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V", "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A",
-                      "zzk_ohm", "vz_tc_pct_per_K", "pd_ref_point", "if_ref_point", "rth_jc_K_per_W",
-                      "rth_jl_K_per_W", "rth_ja_area_mm2", "rth_ja_large_K_per_W", "rth_ja_large_area_mm2", "price",
-                      "lifecycle", "notes")
+# Every stored part column that is known (the TVS, thermal-path and recovery columns included).
+_PART_FIELDS_SHOWN = tuple(name for name in FIELD_NAMES if name not in ("part_number", "vf_points"))
 
 
 def _part_table(part_record: dict) -> str:

@@ -98,7 +98,8 @@ _merge_role_words()
 _SUFFIX_UNITS = (("_mm2", "mm²"), ("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"),
                  ("_pct_per_K", "%/K"),
                  ("_ohm", "Ω"), ("_pct", "%"), ("_ms", "ms"), ("_eV", "eV"), ("_V", "V"),
-                 ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"))
+                 ("_A2s", "A²s"), ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"),
+                 ("_J", "J"), ("_s", "s"))
 
 
 def metric_unit(key: str) -> str:

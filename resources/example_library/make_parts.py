@@ -38,6 +38,8 @@ import numpy as np
 from scipy import constants
 from scipy.optimize import brentq
 
+from protection_parts import PROTECTION_COLUMNS, protection_rows
+
 OUT = Path(__file__).with_name("parts.csv")
 
 # Thermal voltage at 25 degC (T0 = 298.15 K), CODATA k and q.
@@ -51,9 +53,12 @@ COLUMNS = (
     "eg_eV", "is_temp_exponent", "model_source", "vf_points", "vf_max_V",
     "vf_max_at_A", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V",
     "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K",
-    "price", "lifecycle", "notes", "pd_ref_point", "if_ref_point", "rth_jc_K_per_W",
-    "rth_jl_K_per_W", "rth_ja_area_mm2", "rth_ja_large_K_per_W", "rth_ja_large_area_mm2",
+    "pd_ref_point", "if_ref_point", "rth_jc_K_per_W", "rth_jl_K_per_W", "rth_ja_area_mm2",
+    "rth_ja_large_K_per_W", "rth_ja_large_area_mm2",
+    "price", "lifecycle", "notes",
 )
+# The coil-clamp and TVS columns (protection_parts.py), after the others.
+COLUMNS = COLUMNS[:-3] + tuple(c for c in PROTECTION_COLUMNS if c not in COLUMNS) + COLUMNS[-3:]
 
 # ---------------------------------------------------------------------------
 # Thermal path of the power packages (invented, plausible): the datasheet RthJA
@@ -504,7 +509,7 @@ def forward_rows():
 
 
 def main() -> None:
-    rows = forward_rows() + zener_rows()
+    rows = forward_rows() + zener_rows() + protection_rows()
     numbers = [r["part_number"] for r in rows]
     duplicates = {p for p in numbers if numbers.count(p) > 1}
     if duplicates:
