@@ -40,6 +40,7 @@ RELATIVE_TOL = 1e-3      # SPEC §3a: to 0.1 %
 _SPAN = 10.0             # brackets reach 10 × the requirement's value
 _FLOOR = 1e-3            # the lower bracket ends of load and RthJA (the physics wants > 0): 0.1 % of the value
 _MAX_STEPS = 40
+_SEARCHES = ("ambient", "load", "thermal")  # in this order; a role lists those that apply (`Role.limit_searches`)
 
 
 @dataclass
@@ -100,29 +101,36 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
     if P == 0:
         empty = np.zeros(0)
         return OperatingLimits({k: empty for k in LIMIT_KEYS[:3]}, {}, object_array([]), passed)
-    rth_in_use = np.asarray(base.internals["rth_ja_K_per_W"], dtype=float)[index]
-    tj_max_C = np.asarray(base.internals["tj_max_C"], dtype=float)[index]
     req = requirement
-    stacked = parts.subset(np.tile(index, 3))
-    choices = _tile_choices(role.choices(base), index, 3)
+    searches = [k for k in _SEARCHES if k in role.limit_searches]
+    S = len(searches)
+    tj_max_C = np.asarray(base.internals["tj_max_C"], dtype=float)[index]
+    rth_in_use = (np.asarray(base.internals["rth_ja_K_per_W"], dtype=float)[index] if "thermal" in searches
+                  else np.full(P, np.nan))
+    load_max = float(req.load_max_A) if "load" in searches else 1.0
+    brackets = {"ambient": (np.full(P, float(req.ambient_min_C)),
+                            np.maximum(tj_max_C, req.ambient_min_C + AMBIENT_TOL_K), AMBIENT_TOL_K),
+                "load": (np.full(P, _FLOOR * max(load_max, 1e-3)), np.full(P, _SPAN * max(load_max, 1e-3)), 0.0),
+                "thermal": (_FLOOR * rth_in_use, _SPAN * rth_in_use, 0.0)}
+    lo = np.concatenate([brackets[k][0] for k in searches])
+    hi = np.concatenate([brackets[k][1] for k in searches])
+    tol_abs = np.concatenate([np.full(P, brackets[k][2]) for k in searches])
+    stacked = parts.subset(np.tile(index, S))
+    choices = _tile_choices(role.choices(base), index, S)
     nan = np.full(P, np.nan)
 
-    lo = np.concatenate([np.full(P, float(req.ambient_min_C)), np.full(P, _FLOOR * max(req.load_max_A, 1e-3)),
-                         _FLOOR * rth_in_use])
-    hi = np.concatenate([np.maximum(tj_max_C, req.ambient_min_C + AMBIENT_TOL_K),
-                         np.full(P, _SPAN * max(req.load_max_A, 1e-3)), _SPAN * rth_in_use])
-
     def passes(trial: np.ndarray) -> np.ndarray:
-        over = Overrides(ambient_max_C=np.concatenate([trial[:P], nan, nan]),
-                         load_max_A=np.concatenate([nan, trial[P:2 * P], nan]),
-                         thermal_resistance=np.concatenate([nan, nan, trial[2 * P:]]), choices=choices)
+        block = {k: trial[n * P:(n + 1) * P] for n, k in enumerate(searches)}
+        rows = lambda k: np.concatenate([block[k] if m == k else nan for m in searches])  # noqa: E731
+        over = Overrides(ambient_max_C=rows("ambient") if "ambient" in block else None,
+                         load_max_A=rows("load") if "load" in block else None,
+                         thermal_resistance=rows("thermal") if "thermal" in block else None, choices=choices)
         return all_pass(role.evaluate(req, stacked, limits, over))
 
     ok_lo = passes(lo)
     ok_hi = passes(hi)
     a, b = lo.copy(), hi.copy()  # invariant where searched: passes at a, fails at b
     search = ok_lo & ~ok_hi
-    tol_abs = np.concatenate([np.full(P, AMBIENT_TOL_K), np.zeros(2 * P)])
     for _ in range(_MAX_STEPS):
         width = b - a
         open_ = search & (width > np.maximum(tol_abs, RELATIVE_TOL * np.abs(b)))
@@ -134,23 +142,25 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
         a = np.where(open_ & ok, mid, a)
         b = np.where(open_ & ~ok, mid, b)
     found = np.where(search, a, np.where(ok_hi, hi, np.nan))
-    names = ("max_ambient_C", "max_load_A", "max_rth_ja_K_per_W")
-    values = {n: found[k * P:(k + 1) * P] for k, n in enumerate(names)}
+    key_of = {"ambient": "max_ambient_C", "load": "max_load_A", "thermal": "max_rth_ja_K_per_W"}
+    values = {key_of[k]: found[n * P:(n + 1) * P] for n, k in enumerate(searches)}
     notes: dict[str, np.ndarray] = {}
-    words = {"max_ambient_C": lambda j: f"fails at every ambient from ambient_min_C ({req.ambient_min_C:g} °C)",
-             "max_load_A": lambda j: "fails even with no load",
-             "max_rth_ja_K_per_W": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
-    ends = {"max_ambient_C": lambda j: "holds up to Tj max (the search's end)",
-            "max_load_A": lambda j: f"holds at least to {_amperes(hi[P + j])} (10 × load_max_A, the search's end)",
-            "max_rth_ja_K_per_W": lambda j: f"holds at least to {hi[2 * P + j]:.3g} K/W (10 × RthJA in use)"}
-    for k, n in enumerate(names):
+    words = {"ambient": lambda j: f"fails at every ambient from ambient_min_C ({req.ambient_min_C:g} °C)",
+             "load": lambda j: "fails even with no load",
+             "thermal": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
+    ends = {"ambient": lambda j: "holds up to Tj max (the search's end)",
+            "load": lambda j: f"holds at least to {_amperes(brackets['load'][1][j])} (10 × load_max_A, the search's end)",
+            "thermal": lambda j: f"holds at least to {brackets['thermal'][1][j]:.3g} K/W (10 × RthJA in use)"}
+    for n, k in enumerate(searches):
         text = object_array(None, P)
         for j in range(P):
-            if not ok_lo[k * P + j]:
-                text[j] = words[n](j)
-            elif ok_hi[k * P + j]:
-                text[j] = ends[n](j)
-        notes[n] = text
+            if not ok_lo[n * P + j]:
+                text[j] = words[k](j)
+            elif ok_hi[n * P + j]:
+                text[j] = ends[k](j)
+        notes[key_of[k]] = text
+    if "thermal" not in searches:
+        return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index)), passed)
 
     mount = getattr(req, "thermal", None)
     rth_max = values["max_rth_ja_K_per_W"]
@@ -181,8 +191,11 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
                                                            "area (ln-area line extended)")
         values["min_copper_area_mm2"] = np.where(beyond, np.nan, area)
         notes["min_copper_area_mm2"] = text
-    failing = [[c.name for c in base.checks if c.present[i] and not c.passed[i]] for i in index]
-    return OperatingLimits(values, notes, _summaries(values, notes, passed, failing), passed)
+    return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index)), passed)
+
+
+def _failing(base: RoleResult, index) -> list[list[str]]:
+    return [[c.name for c in base.checks if c.present[i] and not c.passed[i]] for i in index]
 
 
 def _amperes(value: float) -> str:
@@ -199,17 +212,17 @@ def _summaries(values: dict, notes: dict, passed: np.ndarray, failing: list[list
     out = object_array(None, P)
     for j in range(P):
         parts_ = []
-        amb = values["max_ambient_C"][j]
+        amb = values["max_ambient_C"][j] if "max_ambient_C" in values else np.nan
         if np.isfinite(amb):
             parts_.append(f"up to {amb:.1f} °C ambient")
-        load = values["max_load_A"][j]
+        load = values["max_load_A"][j] if "max_load_A" in values else np.nan
         if np.isfinite(load):
             parts_.append(f"up to {_amperes(load)} load")
         if "max_rth_sa_K_per_W" in values and np.isfinite(values["max_rth_sa_K_per_W"][j]):
             parts_.append(f"on a heatsink of RthSA ≤ {values['max_rth_sa_K_per_W'][j]:.3g} K/W")
         elif "min_copper_area_mm2" in values and np.isfinite(values["min_copper_area_mm2"][j]):
             parts_.append(f"on ≥ {values['min_copper_area_mm2'][j]:.3g} mm² of copper")
-        elif np.isfinite(values["max_rth_ja_K_per_W"][j]):
+        elif "max_rth_ja_K_per_W" in values and np.isfinite(values["max_rth_ja_K_per_W"][j]):
             parts_.append(f"with RthJA ≤ {values['max_rth_ja_K_per_W'][j]:.3g} K/W")
         if not parts_:
             out[j] = ("no ambient, load or thermal resistance alone makes every check pass (failing: "

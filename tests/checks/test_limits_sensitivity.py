@@ -245,3 +245,28 @@ def test_sensitivities_agree_with_finite_differences_of_two_full_runs(make):
             assert e["margin_change_pct"] == pytest.approx(expected, rel=1e-6, abs=1e-9)
             compared += 1
     assert compared >= 10
+
+
+@pytest.mark.parametrize("name", ["solenoid_valve_24V_zener.toml", "surge_input_24V.toml"])
+def test_clamp_roles_max_ambient_agrees_with_a_brute_force_scan(name):
+    # The roles added later get their limits through the same hook (Role.evaluate with Overrides).
+    from pathlib import Path
+
+    from partpick.checks.requirement import load_requirement
+    from partpick.library.store import open_library
+
+    root = Path(__file__).resolve().parents[2]
+    with open_library(root / "library.sqlite.example") as lib:
+        parts = lib.list_parts()
+    req = load_requirement(root / "resources" / "requirements" / name)
+    ev = evaluate(req, parts)
+    shown = ev.ranking.order[:4]
+    chosen = [ev.parts.parts[i] for i in shown]
+    _, limits, _ = _limits(req, chosen)
+    grid = np.arange(req.ambient_min_C, 176.0, 1.0)
+    compared = 0
+    for j, part in enumerate(chosen):
+        edge = _scan_edge(req, [part], "ambient_max_C", grid[grid <= part["tj_max_C"]])[0]
+        _assert_within(limits.values["max_ambient_C"][j], edge, AMBIENT_TOL_K, 0.0)
+        compared += np.isfinite(limits.values["max_ambient_C"][j])
+    assert compared >= 1

@@ -59,6 +59,13 @@ class Overrides:
         """(P,) the highest load in force [A]."""
         return _or_requirement(self.load_max_A, requirement.load_max_A, count)
 
+    def ambient_table(self, requirement, ambient_C, hot, count: int) -> np.ndarray:
+        """(P, K) ambients [°C] of K points whose ``hot`` ones (bool (K,)) sit at the highest ambient."""
+        table = np.broadcast_to(np.asarray(ambient_C, dtype=float), (count, len(ambient_C))).copy()
+        if self.ambient_max_C is not None:
+            table[:, np.asarray(hot, dtype=bool)] = self.ambient_max(requirement, count)[:, None]
+        return table
+
     def choice(self, name: str, default):
         """A held discrete choice (P,), or ``default`` where the base check is being made."""
         return self.choices.get(name, default)
@@ -112,6 +119,9 @@ class Role:
     supports_yield: bool = False
     #: Part columns that enter the role's checks (the inputs of "what sets the worst case").
     part_inputs: tuple[str, ...] = ()
+    #: Which operating limits apply (`partpick.checks.limits`): the highest ambient, the highest load,
+    #: the largest thermal resistance. A role without a load or without steady heating lists fewer.
+    limit_searches: tuple[str, ...] = ("ambient", "load", "thermal")
     #: The common requirement keys this role needs besides name, role and the ambient range.
     required_keys: tuple[str, ...] = ("supply_min_V", "supply_max_V", "load_min_A", "load_max_A")
     #: Common keys this role does not use → the hint shown when a file gives one (SPEC §4a).
