@@ -143,7 +143,6 @@ def curve_images(requirement, part_record: dict | None, candidate: dict | None) 
                         plots.draw_section(plot_item, curves.get(_s), **_o))
                 images.append((section.replace("_", "-") + ("-log" if options.get("log_y") else ""), title,
                                plots.section_png(draw, data)))
-        return images, list(data["notes"])
     for name, caption, draw_name, options in IMAGE_PLOTS.get(data["role"], ()):
         section = {"draw_forward": "forward", "draw_breakdown": "breakdown", "draw_zener_output": "zener_output",
                    "draw_junction_temperature": "junction_temperature", "draw_power": "power"}[draw_name]
