@@ -38,7 +38,8 @@ def margin_matrix(checks) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     present = np.stack([c.present for c in checks], axis=1)
     passed = np.stack([c.passed for c in checks], axis=1)
     keyed = np.where(np.isnan(margins), -np.inf, margins)
-    keyed = np.where(present, keyed, np.inf)
+    # a check that passes without a margin (reported "not rated", not checked) bounds nothing
+    keyed = np.where(present & ~(passed & np.isnan(margins)), keyed, np.inf)
     return keyed, present, present & ~passed
 
 

@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from partpick.errors import InputError
 from partpick.library.fields import KINDS
 from partpick.gui.observer import Signal
+from partpick.gui.thermal_fields import drop_empty_thermal, thermal_field_applies, thermal_fields
 from partpick.units import format_quantity, parse_quantity
 
 __all__ = [
@@ -164,7 +165,7 @@ ROLE_GROUPS = {role.name: role.form_group().title for role in _REGISTRY.values()
 """Role → the title of its own group in the form."""
 ROLE_CAUTIONS = {role.name: role.cautions for role in _REGISTRY.values() if role.cautions}
 """Role → the cautions it adds (shown in its form group; SPEC §7)."""
-REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + _role_group_fields()
+REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + thermal_fields(ReqField) + _role_group_fields()
 FIELDS_BY_KEY = {f.key: f for f in REQUIREMENT_FIELDS}
 ROLE_TABLES = {f.table for f in REQUIREMENT_FIELDS if f.table and f.table != "zener"}
 
@@ -265,6 +266,8 @@ class RequirementModel:
     def applies(self, key: str) -> bool:
         """Whether a field belongs to the current role's requirement."""
         spec = FIELDS_BY_KEY[key]
+        if spec.table == "thermal" and not thermal_field_applies(key, self.fields["thermal.mount"].value):
+            return False
         if spec.roles is not None:
             return self.role in spec.roles
         role = _REGISTRY.get(self.role)
@@ -378,7 +381,7 @@ class RequirementModel:
             if value is None:
                 continue
             (data[spec.table] if spec.table else data)[spec.toml_key] = value
-        return data
+        return drop_empty_thermal(data)
 
     def build_requirement(self):
         """The checker's `Requirement` for the current fields.

@@ -29,10 +29,10 @@ import itertools
 
 import numpy as np
 
-from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_needs as thermal_needs_of, tj_limit
 from partpick.checks.results import CheckArray, PointTable, object_array, worst_case_check, worst_value
 from partpick.checks.role_table import RoleTable, TableKey
-from partpick.checks.roles.base import Role, RoleResult
+from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.checks.roles.series import forward_model_of
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.leakage import reverse_current
@@ -139,6 +139,10 @@ class AcRectifierRole(Role):
         "capacitor_rms_A": "Capacitor ripple current",
     }
     key_metrics = ("dc_min_V", "ripple_Vpp", "diode_peak_A", "dissipation_W", "junction_temp_C")
+    part_inputs = ("is_A", "n", "rs_ohm", "vf_max_V", "vrrm_V", "if_avg_A", "ifsm_A", "ifrm_A", "tj_max_C",
+                   "rth_ja_K_per_W", "pd_W", "ir_A", "ir_vr_V", "ir_double_K", "eg_eV", "is_temp_exponent")
+    limit_searches = ("ambient", "load", "thermal")
+    analysed_candidates = 0  # SPEC §9: on demand (each costs about 20 cycle solves of every corner)
     rating_of_check = {"repetitive_peak": ("ifrm_A", "IFRM", "A"), "surge_peak": ("ifsm_A", "IFSM", "A")}
 
     def candidate_kinds(self, requirement) -> tuple[str, ...]:
@@ -165,22 +169,26 @@ class AcRectifierRole(Role):
         return ac_rectifier_curves_many(requirement, parts, candidates, notes_list)
 
     # ------------------------------------------------------------------------------------------
-    def evaluate(self, requirement, parts, limits) -> RoleResult:
+    def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
+        ov = overrides or Overrides()
         ac = req.table("ac")
         count = parts.count
-        vac, load, amb_C, cap = ac_corners(req)
+        vac, load_K, amb_K, cap = ac_corners(req)
         K = vac.size
+        # per candidate (P, K): the overrides of operating limits and sensitivity move the max ends
+        amb_C = ov.ambient_table(req, amb_K, amb_K == req.ambient_max_C, count)
+        load = np.where(load_K[None, :] == req.load_max_A, ov.load_max(req, count)[:, None], load_K[None, :])
         topology = ac.topology
         bridge_part = parts.kind == "bridge"
         per_package = np.where(bridge_part, 4.0, 1.0)
         piv = float(peak_inverse_voltage(topology, ac.vac_max_Vrms))
         surge_R = ac.surge_source_ohm if ac.surge_source_ohm is not None else ac.source_ohm
-        on_C = [req.ambient_min_C, req.ambient_max_C]
+        on_C = ov.ambient_table(req, [req.ambient_min_C, req.ambient_max_C], [False, True], count)
         points = PointTable(
             supply_V=None,
-            load_A=np.concatenate([load, load, [0.0, 0.0]]),
-            ambient_C=np.concatenate([amb_C, amb_C, on_C]),
+            load_A=np.concatenate([load_K, load_K, [0.0, 0.0]]),
+            ambient_C=np.concatenate([amb_K, amb_K, [req.ambient_min_C, req.ambient_max_C]]),
             state=("steady",) * K + ("reverse",) * K + ("switch_on",) * 2,
             extra=(("vac_Vrms", np.concatenate([vac, vac, [ac.vac_max_Vrms] * 2])),
                    ("capacitance_F", np.concatenate([cap, cap, [cap.max()] * 2]))),
@@ -189,8 +197,7 @@ class AcRectifierRole(Role):
 
         # ---- what each check needs ---------------------------------------------------
         needs = Needs(parts)
-        thermal_needs = [("tj_max_C",)] if req.rth_ja_K_per_W is not None else [("tj_max_C",),
-                                                                                   ("pd_W", "rth_ja_K_per_W")]
+        thermal_needs = thermal_needs_of(req)
         forward_needs = [("is_A",), ("n",), ("rs_ohm",)] + thermal_needs
         reverse_needs = [("ir_A",), ("ir_vr_V",)] + thermal_needs
         needs.require("reverse_voltage", "vrrm_V")
@@ -209,7 +216,7 @@ class AcRectifierRole(Role):
         forward_bad = _missing_any(parts, forward_needs)
         reverse_bad = _missing_any(parts, reverse_needs) | forward_bad
 
-        thermal = thermal_data(parts, req.rth_ja_K_per_W)
+        thermal = thermal_data(parts, req, ov.thermal_resistance)
         rth = thermal.thermal_resistance
         tj_max_C = thermal.tj_max_K - ZERO_CELSIUS_K
         groups = parts.group
@@ -244,13 +251,13 @@ class AcRectifierRole(Role):
         # forward_current: the diode's average (a bridge: the DC output) against IF(AV) derated at Ta,
         # less the capacitive-load derating, × the policy's current limit
         cur_pct, cur_src = limit_array(limits, groups, "current_pct")
-        Ta_K = amb_C + ZERO_CELSIUS_K
+        Ta_K = amb_C + ZERO_CELSIUS_K  # °C → K at the physics boundary, (P, K)
         if_ref_K = np.minimum(parts.value("if_ref_C") + ZERO_CELSIUS_K, thermal.tj_max_K - 1.0)
-        rated = derated_current(Ta_K[None, :], parts.value("if_avg_A", 1.0)[:, None], thermal.tj_max_K[:, None],
+        rated = derated_current(Ta_K, parts.value("if_avg_A", 1.0)[:, None], thermal.tj_max_K[:, None],
                                 if_ref_K[:, None])
         cap_share = 1.0 - ac.capacitive_derate_pct / 100.0
         carried = np.where(cyc.empty, np.nan,
-                           np.where(bridge_part[:, None], load[None, :], cyc.cycle.average_current))
+                           np.where(bridge_part[:, None], load, cyc.cycle.average_current))
         cur_source = object_array([
             f"{cur_src[g]}: {v:g} % of IF(AV) derated at Ta, less {ac.capacitive_derate_pct:g} % for a "
             f"capacitive load ([ac] capacitive_derate_pct)" for g, v in enumerate(_group_values(limits, "current_pct"))
@@ -282,7 +289,7 @@ class AcRectifierRole(Role):
 
         # power: the package's cycle-average power against Pallow(Ta), per corner, in % of it
         pow_pct, pow_src = limit_array(limits, groups, "power_pct")
-        p_allowed = allowed_power(Ta_K[None, :], thermal.power_rating[:, None], thermal.tj_max_K[:, None],
+        p_allowed = allowed_power(Ta_K, thermal.power_rating[:, None], thermal.tj_max_K[:, None],
                                   thermal.pd_ref_K[:, None])
         package_W = nan_f(np.where(cyc.runaway, np.nan, cyc.package_power))
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -405,8 +412,8 @@ def _cycle(req, model, vac, load, amb_C, cap, rth, per_package, parts):
     """The self-heated periodic steady state at every part × corner (P, 16)."""
     ac = req.table("ac")
     return rectifier_operating_point(
-        ac.topology, vac[None, :], ac.frequency_Hz, ac.source_ohm, cap[None, :], load[None, :], model,
-        (amb_C + ZERO_CELSIUS_K)[None, :], rth[:, None], per_package[:, None],
+        ac.topology, vac[None, :], ac.frequency_Hz, ac.source_ohm, cap[None, :], load, model,
+        amb_C + ZERO_CELSIUS_K, rth[:, None], per_package[:, None],
         leakage_rated_voltage=parts.value("ir_vr_V", 1.0)[:, None])
 
 
@@ -436,7 +443,7 @@ def _reverse(parts, cyc, rth, per_package, piv):
 def _switch_on(req, model, parts, surge_R, ambients_C, capacitance):
     """The switch-on surge at the crest into the largest empty capacitor, no load, cold and hot (P, 2)."""
     ac = req.table("ac")
-    T = np.asarray(ambients_C, dtype=float)[None, :] + ZERO_CELSIUS_K
+    T = np.asarray(ambients_C, dtype=float) + ZERO_CELSIUS_K  # (P, 2)
     Is, n, Rs = model.at(T)
     sol = switch_on_surge(ac.topology, ac.vac_max_Vrms, ac.frequency_Hz, surge_R, capacitance, 0.0, Is, n, Rs, T,
                           (parts.value("ifsm_ms") / 1000.0)[:, None])
