@@ -50,7 +50,7 @@ def _open(args):
 
 def _all_policies(library) -> dict:
     from partpick.checks.policy import BUILTIN_POLICIES
-    from partpick.cli.check import load_policies
+    from partpick.checks.policy import load_policies
 
     return {**load_policies(library), **BUILTIN_POLICIES}
 

@@ -461,7 +461,7 @@ class LibraryModel:
 
     def policies(self) -> dict:
         """The library's own derating policies as the CLI loads them (the checker adds the built-ins)."""
-        from partpick.cli.check import load_policies
+        from partpick.checks.policy import load_policies
 
         return load_policies(self.library) if self.library is not None else {}
 

@@ -20,7 +20,7 @@ CHANGED_COLOR = QColor(230, 160, 30, 80)
 
 def format_value(value, unit: str = "", digits: int = 3) -> str:
     """A result number as the report shows it (engineering notation, the report layer's formatter)."""
-    from partpick.checks.curves import format_engineering
+    from partpick.units import format_engineering
 
     if value is None:
         return "—"

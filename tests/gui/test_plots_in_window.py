@@ -1,0 +1,75 @@
+"""The curves as the user reads them: log-axis tick labels, legends, ranges, which parts are drawn."""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from partpick.plots.axes import log_tick_text
+
+REQUIREMENTS = Path(__file__).resolve().parents[2] / "resources" / "requirements"
+SERIES_TOML = REQUIREMENTS / "reverse_polarity_24V.toml"
+ZENER_TOML = REQUIREMENTS / "zener_5V1_reference.toml"
+
+_PREFIX_VALUE = {"a": 1e-18, "f": 1e-15, "p": 1e-12, "n": 1e-9, "µ": 1e-6, "m": 1e-3, "": 1.0, "k": 1e3,
+                 "M": 1e6, "G": 1e9, "T": 1e12}
+
+
+def _label_value(text: str) -> float:
+    """The value a tick label says (the inverse of `log_tick_text`, written separately)."""
+    prefix = text[-1] if text and not text[-1].isdigit() else ""
+    number = text[: len(text) - len(prefix)]
+    return float(number) * _PREFIX_VALUE[prefix]
+
+
+def tick_labels(plot_item, name: str = "left") -> list[str]:
+    """The tick labels the axis paints now (pyqtgraph's own tick choice, the strings it draws)."""
+    axis = plot_item.getAxis(name)
+    low, high = axis.range
+    labels = []
+    for spacing, values in axis.tickValues(low, high, 400):
+        labels += axis.tickStrings(values, axis.autoSIPrefixScale * axis.scale, spacing)
+    return [t for t in labels if t]
+
+
+def load(window, path) -> None:
+    from partpick.gui.commands import load_requirement_file
+
+    load_requirement_file(window.bench, path)
+    window.rechecker.run_now()
+
+
+def test_log_current_ticks_read_the_data_after_switching_from_zener_to_series(window):
+    load(window, ZENER_TOML)
+    load(window, SERIES_TOML)
+    page = window.curves.pages["iv"]
+    log_plot = page.widgets[0][1].getPlotItem()
+    curves = window.curves.curve_sets[0]["forward"]["curves"]
+    currents = np.concatenate([np.asarray(c["y"], dtype=float) for c in curves])
+    currents = currents[np.isfinite(currents) & (currents > 0)]
+    labels = tick_labels(log_plot)
+    assert labels
+    values = [_label_value(t) for t in labels]
+    # The ticks must span the data's decades (the defect read 1000× too high: "1 … 10k" for 1 mA … 10 A).
+    assert min(values) <= currents.max() and max(values) >= currents.min() * 0.999
+    assert max(values) <= currents.max() * 100, (labels, currents.max())
+    assert log_plot.getAxis("left").autoSIPrefixScale == 1.0
+
+
+def test_saved_curves_image_uses_the_same_axes(window, tmp_path):
+    """'Save curves image' renders the window's plots, so the same fixed tick scale is in the file."""
+    load(window, ZENER_TOML)
+    load(window, SERIES_TOML)
+    out = tmp_path / "curves.png"
+    window.bench.prompt.paths.append(str(out))
+    window.run_command("curves.export")
+    assert out.stat().st_size > 1000
+    assert window.curves.pages["iv"].widgets[0][1].getPlotItem().getAxis("left").autoSIPrefixScale == 1.0
+
+
+def test_log_tick_text_inverse():
+    for value in (1e-9, 2e-6, 0.001, 0.5, 1.0, 20.0, 1500.0):
+        assert _label_value(log_tick_text(value)) == pytest.approx(value, rel=1e-3)
