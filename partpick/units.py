@@ -68,6 +68,9 @@ def parse_quantity(text: str | float | int, unit: str = "", *, name: str = "valu
     raw = str(text).strip()
     if not raw:
         raise InputError(f"{name}: empty entry, a number is needed")
+    # The typographic minus (U+2212) is what partpick itself writes ("−40 °C"); so is a thin or
+    # no-break space between number and unit. Read them as the ASCII minus and a space.
+    raw = raw.replace("\u2212", "-").replace("\u2009", " ").replace("\u00a0", " ").replace("\u202f", " ")
     match = _SHAPE.match(raw)
     if match is None:
         raise InputError(f"{name}: {raw!r} is not a number in engineering notation (e.g. 4.7k, 10 mA, 1e-14)")

@@ -29,7 +29,7 @@ from partpick.report.words import (
     metric_unit,
 )
 
-__all__ = ["review_html", "subject_candidate", "curve_images", "IMAGE_PLOTS"]
+__all__ = ["review_html", "subject_candidate", "curve_images", "IMAGE_PLOTS", "check_sheet_html"]
 
 # Which plots the report shows per role: (image name, caption, draw function name, options).
 IMAGE_PLOTS = {
@@ -227,6 +227,17 @@ def _check_sheet(candidate: dict, part_record: dict | None) -> str:
     header = ["Check", "Worst value", "Limit", "Result, margin", "Rating; stress ratio", "Worst corner",
               "Limit source"]
     return _table(header, rows, numeric={1, 2}, raw=True, widths=[17, 12, 10, 12, 17, 18, 14])
+
+
+def check_sheet_html(candidate: dict, part_record: dict | None) -> str:
+    """One part's check sheet as an HTML fragment (the report's, for the window's check-sheet view)."""
+    verdict = "passes every check" if candidate.get("passed") else \
+        "fails: " + ", ".join(CHECK_LABELS.get(n, n) for n in candidate.get("failed_checks") or [])
+    return (f"<style>{_STYLE}</style><h2>Check sheet: {e(candidate['part_number'])}</h2>"
+            f"<p>Rank {e(candidate.get('rank'))}, {e(candidate.get('kind'))}, package "
+            f"{e(candidate.get('package'))}: <b>{e(verdict)}</b>.</p>"
+            + _check_sheet(candidate, part_record) + "<h3>Worst-case values</h3>" + _metrics_table(candidate)
+            + '<p class="caution"><b>Caution.</b> ' + " ".join(e(c) for c in CAUTIONS) + "</p>")
 
 
 def _metrics_table(candidate: dict) -> str:

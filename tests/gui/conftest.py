@@ -73,6 +73,11 @@ class ScriptedPrompt:
         self.cancel_after = None  # progress calls before "Cancel" is pressed
         self.progress_calls = 0
         self.exported: list = []
+        self.choices: list = []  # queued answers of `choose`
+        self.asked: list = []  # (title, text, choices) of every `choose`
+        self.quit_answer = None  # the answer to "unsaved changes, quit?" when none is queued
+        self.cautions: list = []  # first_run flags of every cautions display
+        self.check_sheets: list = []
         self.window = None
 
     def open_path(self, title, filter):
@@ -89,6 +94,22 @@ class ScriptedPrompt:
 
     def confirm(self, title, text):
         return self.confirmations.pop(0) if self.confirmations else False
+
+    def choose(self, title, text, choices):
+        self.asked.append((title, text, list(choices)))
+        if self.choices:
+            return self.choices.pop(0)
+        return self.quit_answer if title == "Quit" else None
+
+    def show_cautions(self, first_run=False):
+        self.cautions.append(first_run)
+
+    def show_check_sheet(self, result, part_number):
+        self.check_sheets.append(part_number)
+        if self.window is not None:
+            from partpick.gui.main_window import WindowPrompt
+
+            WindowPrompt(self.window).show_check_sheet(result, part_number)
 
     def show_error(self, title, text):
         self.errors.append((title, text))
@@ -158,6 +179,7 @@ def window(qtbot, library, settings, prompt):
     win.show()
     qtbot.waitExposed(win)
     yield win
+    prompt.quit_answer = "Discard"  # a test that edited the form is not asked to save at teardown
     win.close()
     assert QThreadPool.globalInstance().waitForDone(10000), "a check was still running after the window closed"
     assert QThreadPool.globalInstance().activeThreadCount() == 0
