@@ -261,7 +261,7 @@ class ShortlistView(QWidget):
         header = self.table.horizontalHeader()
         header.setSortIndicator(0, Qt.SortOrder.AscendingOrder)
         self.table.setSortingEnabled(True)
-        header.sortIndicatorChanged.connect(lambda *_: self._update_selection())
+        self.table_model.modelReset.connect(self._update_selection)  # a sort resets the rows
         self.table.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
         self.table.customContextMenuRequested.connect(self._context_menu)
         self._actions: dict = {}
