@@ -344,3 +344,33 @@ def test_the_first_window_fits_a_1366_by_768_screen(window, monkeypatch):
     monkeypatch.setattr(type(screen), "availableGeometry", lambda self: QRect(0, 0, 1366, 728))
     window._first_size()
     assert window.width() <= 1366 and window.height() <= 728
+
+
+# -- substitutes --------------------------------------------------------------------------------------
+def test_substitutes_is_a_sortable_coloured_view_that_opens_check_sheets(qtbot, window):
+    from partpick.gui.compare_view import substitute_cell
+
+    load(window, ZENER_TOML)
+    bench = window.bench
+    bench.result.set_selected([bench.result.candidates[0]["part_number"]])
+    window.run_command("shortlist.substitutes")
+    dialog = next(d for d in window.dialogs if d.objectName() == "substitutes_dialog")
+    count = len(dialog.candidates)
+    assert count >= 1
+    assert dialog.summary.text().startswith(f"{count} part{'s' if count != 1 else ''} pass{'es' if count == 1 else ''} ")
+    headers = [dialog.table.horizontalHeaderItem(c).text() for c in range(dialog.table.columnCount())]
+    life = headers.index("Δ Lifecycle")
+    texts = [dialog.table.item(r, life).text() for r in range(dialog.table.rowCount())]
+    assert not any("{" in t for t in texts)  # never a raw dict
+    # Colours: lower price is better, a higher one is worse; a move towards obsolete is worse.
+    assert substitute_cell("price", -0.01)[1] == 1 and substitute_cell("price", 0.02)[1] == -1
+    assert substitute_cell("lifecycle", {"from": "active", "to": "nrnd"}) == ("active → nrnd", -1, 1)
+    assert substitute_cell("smallest_margin_pct", 3.0)[1] == 1
+    # Sorting by a delta column orders by the value.
+    price = headers.index("Δ Price") if "Δ Price" in headers else None
+    if price is not None and dialog.table.rowCount() > 1:
+        dialog.table.sortByColumn(price, Qt.SortOrder.AscendingOrder)
+        keys = [dialog.table.item(r, price).data(Qt.ItemDataRole.UserRole) for r in range(dialog.table.rowCount())]
+        assert keys == sorted(keys)
+    dialog.open_check_sheet(0)
+    assert bench.prompt.check_sheets == [dialog.part_at(0)]

@@ -183,7 +183,7 @@ def test_every_bad_row_is_reported_with_line_and_column(library, write_csv):
         "6 bad rows, nothing imported: line 3, column vrrm_V: '4.7kk'" in message
     assert "line 8, column part_number: part_number TST-1 already appears on line 2" in message
     assert "line 9: the row has 4 cells, the header has 8 columns" in message
-    assert "line 6, column n: part TST-4: n = 9 is out of range (allowed: 0.5 ≤ value ≤ 4)" in message
+    assert "line 6, column n: part TST-4: n = 9 is out of range (allowed: 1 ≤ value ≤ 4)" in message
     assert "\n" not in message  # one line on stderr
     assert library.list_parts() == []
 
@@ -316,7 +316,7 @@ def test_random_parts_round_trip_exactly(tmp_path):
                 value = rng.uniform(low, high)
             part[spec.name] = min(max(value, math.nextafter(low, math.inf)), high)
         part.update(vrrm_V=rng.uniform(1, 1000), if_avg_A=rng.uniform(0.1, 10), is_A=10 ** rng.uniform(-15, -3),
-                    n=rng.uniform(0.5, 4), rs_ohm=rng.uniform(0, 1), tj_max_C=rng.uniform(100, 250),
+                    n=rng.uniform(1, 4), rs_ohm=rng.uniform(0, 1), tj_max_C=rng.uniform(100, 250),
                     model_source="entered", vf_max_V=None, vf_max_at_A=None, ir_A=None, ir_vr_V=None,
                     izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None,
                     ir_hot_A=None, ir_hot_t_C=None, rth_ja_area_mm2=None, rth_ja_large_K_per_W=None,
