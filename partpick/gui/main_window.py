@@ -112,8 +112,11 @@ class WindowPrompt:
         dialog = QProgressDialog(title, "Cancel", 0, 1000, self.window)
         dialog.setWindowTitle("partpick")
         dialog.setWindowModality(Qt.WindowModality.WindowModal)
-        dialog.setMinimumDuration(300)
+        dialog.setMinimumDuration(0)
+        dialog.setValue(0)
         self.window.progress_dialog = dialog
+        dialog.show()  # at once: the work below may take seconds before its first progress report
+        QApplication.processEvents()
 
         def progress(done, total):
             dialog.setValue(int(1000 * done / total) if total else 0)

@@ -92,9 +92,7 @@ class DeleteParts(QUndoCommand):
 
 
 class EditRequirementField(QUndoCommand):
-    """One field of the requirement form changed (typing in one field merges into one step)."""
-
-    ID = 0x5251  # mergeWith only within this kind
+    """One field of the requirement form changed (typing on in one field extends the same step)."""
 
     def __init__(self, model, key: str, old: str, new: str) -> None:
         from partpick.gui.models import FIELDS_BY_KEY
@@ -106,14 +104,13 @@ class EditRequirementField(QUndoCommand):
         self._new = new
         self._done = True  # pushed after the edit happened: the first redo has nothing to do
 
-    def id(self) -> int:  # noqa: A003 (Qt's name)
-        return self.ID
+    def extend(self, new: str) -> None:
+        """More typing in the same field: the step now ends at ``new``.
 
-    def mergeWith(self, other) -> bool:  # noqa: N802 (Qt's name)
-        if not isinstance(other, EditRequirementField) or other.key != self.key:
-            return False
-        self._new = other._new
-        return True
+        (Not QUndoCommand.mergeWith: Qt deletes the merged command inside ``push`` while Python still
+        owns its wrapper, which PySide6 then frees a second time.)
+        """
+        self._new = new
 
     def redo(self) -> None:
         if self._done:

@@ -72,6 +72,7 @@ class ScriptedPrompt:
         self.helped = 0
         self.cancel_after = None  # progress calls before "Cancel" is pressed
         self.progress_calls = 0
+        self.progress_log: list = []  # (seconds since the work started, done, total)
         self.exported: list = []
         self.choices: list = []  # queued answers of `choose`
         self.asked: list = []  # (title, text, choices) of every `choose`
@@ -121,8 +122,13 @@ class ScriptedPrompt:
         self.problems.append((title, summary, list(problems)))
 
     def run_with_progress(self, title, work):
+        import time
+
+        start = time.perf_counter()
+
         def progress(done, total):
             self.progress_calls += 1
+            self.progress_log.append((time.perf_counter() - start, done, total))
 
         def cancel():
             return self.cancel_after is not None and self.progress_calls >= self.cancel_after
