@@ -403,3 +403,27 @@ def test_a_large_import_reports_progress_from_its_first_rows(window, tmp_path):
     assert first_done / first_total < 0.05  # the first report comes within the first rows of the dry run
     assert [d / t for _, d, t in log] == sorted(d / t for _, d, t in log)  # never goes backwards
     assert log[-1][1] == log[-1][2]
+
+
+def test_library_table_sorts_by_any_column_and_has_a_row_menu(qtbot, window):
+    from partpick.gui.library_view import LIBRARY_COLUMNS
+
+    view = window.library_view
+    model, table = view.table_model, view.table
+    view.select_part(model.part_at(3)["part_number"])
+    chosen = window.bench.selected_parts
+    column = LIBRARY_COLUMNS.index("vrrm_V")
+    table.sortByColumn(column, Qt.SortOrder.DescendingOrder)
+    values = [model.part_at(r).get("vrrm_V") for r in range(model.rowCount())]
+    known = [v for v in values if v is not None]
+    assert known == sorted(known, reverse=True) and values[: len(known)] == known  # unknown last
+    assert view.selected_part_numbers() == chosen == window.bench.selected_parts
+    table.sortByColumn(LIBRARY_COLUMNS.index("part_number"), Qt.SortOrder.AscendingOrder)
+    numbers = [model.part_at(r)["part_number"] for r in range(model.rowCount())]
+    assert numbers == sorted(numbers, key=str.casefold)
+    rect = table.visualRect(model.index(0, 0))
+    table.customContextMenuRequested.emit(rect.center())
+    titles = [a.text().replace("&", "") for a in view.context_menu.actions() if a.text()]
+    view.context_menu.close()
+    assert {"Edit part…", "Duplicate part", "Delete part", "Add part…", "Copy part number"} <= set(titles)
+    assert window.bench.selected_parts == [numbers[0]]
