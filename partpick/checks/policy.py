@@ -193,8 +193,10 @@ def policy_from_dict(data: dict, source: str = "policy", *, line_of=None) -> Pol
 
 def policy_from_toml(text: str, source: str = "policy") -> Policy:
     """Parse and validate a policy TOML file's text; errors name the line."""
+    from partpick.inputs import parse_toml
+
     try:
-        data = tomllib.loads(text)
+        data = parse_toml(text, source)  # bounded: at most 32 levels of nesting
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{source}: not valid TOML: {exc}") from exc
     from partpick.checks.requirement import _key_line

@@ -19,6 +19,7 @@ from dataclasses import dataclass, field, fields
 from pathlib import Path
 from typing import Any
 
+from partpick.checks.role_table import RoleTable, TableValues
 from partpick.errors import InputError
 from partpick.library.fields import KINDS, LIFECYCLES
 
@@ -45,6 +46,8 @@ AMBIENT_RANGE_C = (-75.0, 200.0)
 
 REQUIRED_KEYS = ("name", "role", "supply_min_V", "supply_max_V", "load_min_A", "load_max_A",
                  "ambient_min_C", "ambient_max_C")
+"""The required keys of the series and Zener roles; another role names its own (`Role.required_keys`)."""
+BASE_REQUIRED_KEYS = ("name", "role", "ambient_min_C", "ambient_max_C")
 ZENER_REQUIRED_KEYS = ("target_V", "max_regulation_error_pct")
 
 # ---------------------------------------------------------------------------
@@ -157,12 +160,12 @@ class Requirement:
 
     name: str
     role: str
-    supply_min_V: float
-    supply_max_V: float
-    load_min_A: float
-    load_max_A: float
     ambient_min_C: float
     ambient_max_C: float
+    supply_min_V: float | None = None   # required by the roles that name them (Role.required_keys)
+    supply_max_V: float | None = None
+    load_min_A: float | None = None
+    load_max_A: float | None = None
     policy: str | None = None
     objective: str = DEFAULTS["objective"]
     reverse_margin_pct: float | None = None
@@ -183,7 +186,15 @@ class Requirement:
     lifecycle: tuple[str, ...] | None = None
     max_price: float | None = None
     zener: ZenerRequirement | None = None
+    tables: tuple[TableValues, ...] = ()   # the role's own table (RoleTable), validated
     source: str = field(default="requirement", compare=False)
+
+    def table(self, name: str) -> TableValues | None:
+        """The validated values of the role table ``name`` (``"ac"``…), or None when not given."""
+        for values in self.tables:
+            if values._table.name == name:
+                return values
+        return None
 
     @property
     def policy_name(self) -> str:
@@ -200,16 +211,22 @@ class Requirement:
 
     def to_dict(self) -> dict:
         """Every key with the defaults filled in (plain JSON types)."""
+        from partpick.checks.roles import ROLES
+
+        unused = ROLES[self.role].unused_keys
         out: dict[str, Any] = {}
         for f in fields(self):
-            if f.name in ("source", "zener"):
+            if f.name in ("source", "zener", "tables") or f.name in unused:
                 continue
             value = getattr(self, f.name)
             out[f.name] = list(value) if isinstance(value, tuple) else value
         out["policy"] = self.policy_name
-        out["reverse_V"] = self.reverse_V if self.reverse_V is not None else self.supply_max_V
+        if "reverse_V" in out:
+            out["reverse_V"] = self.reverse_V if self.reverse_V is not None else self.supply_max_V
         if self.zener is not None:
             out["zener"] = self.zener.to_dict()
+        for values in self.tables:
+            out[values._table.name] = values.to_dict()
         return out
 
     def with_changes(self, **changes) -> "Requirement":
@@ -218,6 +235,8 @@ class Requirement:
         for key, value in changes.items():
             if key == "zener" and isinstance(value, ZenerRequirement):
                 value = {k: v for k, v in vars(value).items() if v is not None}
+            if isinstance(value, TableValues):
+                value = value.given
             data[key] = value
         data = {k: v for k, v in data.items() if v is not None}
         return requirement_from_dict(data, self.source)
@@ -226,7 +245,7 @@ class Requirement:
         """The keys as given (None where not given), the form TOML is written from."""
         out: dict[str, Any] = {}
         for f in fields(self):
-            if f.name == "source":
+            if f.name in ("source", "tables"):
                 continue
             value = getattr(self, f.name)
             if isinstance(value, tuple):
@@ -234,6 +253,8 @@ class Requirement:
             if isinstance(value, ZenerRequirement):
                 value = {g.name: getattr(value, g.name) for g in fields(value)}
             out[f.name] = value
+        for values in self.tables:
+            out[values._table.name] = values.given
         return out
 
 
@@ -268,7 +289,7 @@ class _Reader:
 
     def where(self, key: str, table: str | None = None) -> str:
         line = _key_line(self.text, table, key)
-        full = f"{table}.{key}" if table else key
+        full = (f"{table}.{key}" if key else f"[{table}]") if table else key
         return f"{self.source}, line {line}: {full}" if line else f"{self.source}: {full}"
 
     def fail(self, key: str, message: str, table: str | None = None) -> None:
@@ -318,10 +339,19 @@ def _text_list(reader: _Reader, key: str, value, allowed) -> tuple[str, ...]:
     return tuple(value)
 
 
-def _role_names() -> tuple[str, ...]:
+def _roles() -> dict:
     from partpick.checks.roles import ROLES
 
-    return tuple(ROLES)
+    return ROLES
+
+
+def _role_names() -> tuple[str, ...]:
+    return tuple(_roles())
+
+
+def _role_tables() -> dict[str, tuple[str, RoleTable]]:
+    """Table name → (role name, its RoleTable), over every registered role."""
+    return {r.table.name: (r.name, r.table) for r in _roles().values() if r.table is not None}
 
 
 def requirement_from_dict(data: dict, source: str = "requirement", *, text: str | None = None) -> Requirement:
@@ -344,12 +374,14 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     reader = _Reader(source, text)
     if not isinstance(data, dict):
         raise InputError(f"{source}: a requirement must be a table of keys, got {type(data).__name__}")
+    role_tables = _role_tables()
+    top_keys = TOP_KEYS + tuple(role_tables)
     for key in data:
-        if key not in TOP_KEYS:
-            reader.fail(key, f"unknown key{_suggest(key, TOP_KEYS)}")
-    for key in REQUIRED_KEYS:
+        if key not in top_keys:
+            reader.fail(key, f"unknown key{_suggest(key, top_keys)}")
+    for key in ("name", "role"):
         if key not in data:
-            raise InputError(f"{source}: required key {key!r} is missing (required: {', '.join(REQUIRED_KEYS)})")
+            raise InputError(f"{source}: required key {key!r} is missing")
     values: dict[str, Any] = {}
     for key in _TEXT_KEYS:
         if key in data:
@@ -358,6 +390,20 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     if values["role"] not in roles:
         reader.fail("role", f"{values['role']!r} is not a role (roles: {', '.join(roles)})"
                             f"{_suggest(values['role'], roles)}")
+    role = _roles()[values["role"]]
+    for key in data:
+        if key in role.unused_keys:
+            reader.fail(key, f"role {role.name!r} does not use this key: {role.unused_keys[key]}")
+        if key == "zener" and role.name != "zener_shunt":
+            reader.fail("", f"the [zener] table belongs to role 'zener_shunt', not to {role.name!r}", key)
+        if key in role_tables and role_tables[key][0] != role.name:
+            reader.fail("", f"the [{key}] table belongs to role {role_tables[key][0]!r}, "
+                            f"not to {role.name!r}", key)
+    required = BASE_REQUIRED_KEYS[:2] + role.required_keys + BASE_REQUIRED_KEYS[2:]
+    for key in required:
+        if key not in data:
+            raise InputError(f"{source}: required key {key!r} is missing (required for role "
+                             f"{role.name!r}: {', '.join(required)})")
     if "objective" in values and values["objective"] not in OBJECTIVES:
         reader.fail("objective", f"{values['objective']!r} is not an objective (objectives: "
                                  f"{', '.join(OBJECTIVES)}){_suggest(values['objective'], OBJECTIVES)}")
@@ -370,7 +416,7 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
 
     for low, high, unit in (("supply_min_V", "supply_max_V", "V"), ("load_min_A", "load_max_A", "A"),
                             ("ambient_min_C", "ambient_max_C", "°C")):
-        if values[low] > values[high]:
+        if low in values and high in values and values[low] > values[high]:
             reader.fail(low, f"{values[low]:g} {unit} is above {high} = {values[high]:g} {unit} (min above max)")
     if ("inrush_capacitance_F" in values) != ("inrush_source_ohm" in values):
         given = "inrush_capacitance_F" if "inrush_capacitance_F" in values else "inrush_source_ohm"
@@ -385,10 +431,50 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     if values["role"] == "zener_shunt" and zener is None:
         raise InputError(f"{source}: role 'zener_shunt' needs a [zener] table with "
                          f"{', '.join(ZENER_REQUIRED_KEYS)}")
-    if zener is not None and zener.target_V >= values["supply_max_V"]:
+    if zener is not None and "supply_max_V" in values and zener.target_V >= values["supply_max_V"]:
         reader.fail("target_V", f"{zener.target_V:g} V is not below supply_max_V = {values['supply_max_V']:g} V "
                                 "(a shunt regulator cannot raise its supply)", "zener")
-    return Requirement(**values, zener=zener, source=source)
+    tables = ()
+    if role.table is not None:
+        if role.table.name not in data:
+            if role.table.required:
+                raise InputError(f"{source}: role {role.name!r} needs an [{role.table.name}] table with "
+                                 f"{', '.join(role.table.required)}")
+            tables = (TableValues(role.table, {}),)
+        else:
+            tables = (_table_values(reader, role, data[role.table.name], values),)
+    return Requirement(**values, zener=zener, tables=tables, source=source)
+
+
+def _table_values(reader: _Reader, role, raw, common: dict) -> TableValues:
+    """Validate a role's own table (`RoleTable`) key by key, then the role's cross-key rules."""
+    spec: RoleTable = role.table
+    name = spec.name
+    if not isinstance(raw, dict):
+        reader.fail(name, f"{raw!r} must be a table: write [{name}] on its own line with its keys below it")
+    for key in raw:
+        if spec.key(key) is None:
+            reader.fail(key, f"unknown key in [{name}]{_suggest(key, spec.key_names)}", name)
+    for key in spec.required:
+        if key not in raw:
+            raise InputError(f"{reader.source}: [{name}] required key {key!r} is missing "
+                             f"(required: {', '.join(spec.required)})")
+    given: dict[str, Any] = {}
+    for key, value in raw.items():
+        k = spec.key(key)
+        if k.kind == "number":
+            given[key] = _number(reader, key, value, (_NUM, k.low, k.low_inclusive, k.high), name)
+        elif k.kind == "bool":
+            if not isinstance(value, bool):
+                reader.fail(key, f"{value!r} is not true or false", name)
+            given[key] = value
+        else:
+            if not isinstance(value, str) or value not in k.choices:
+                reader.fail(key, f"{value!r} is not one of {', '.join(k.choices)}{_suggest(str(value), k.choices)}",
+                            name)
+            given[key] = value
+    role.check_table(given, common, lambda key, message: reader.fail(key, message, name))
+    return TableValues(spec, given)
 
 
 def _zener_table(reader: _Reader, table) -> ZenerRequirement:
@@ -416,8 +502,10 @@ def _zener_table(reader: _Reader, table) -> ZenerRequirement:
 
 def requirement_from_toml(text: str, source: str = "requirement") -> Requirement:
     """Parse and validate requirement TOML text; see `requirement_from_dict`."""
+    from partpick.inputs import parse_toml
+
     try:
-        data = tomllib.loads(text)
+        data = parse_toml(text, source)  # bounded: at most 32 levels of nesting
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{source}: not valid TOML: {exc}") from exc
     return requirement_from_dict(data, source, text=text)
@@ -433,11 +521,10 @@ def load_requirement(path: str | Path) -> Requirement:
         and column), or a key is missing, unknown or out of range (the message
         names the line, key and value).
     """
+    from partpick.inputs import read_input_bytes
+
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise InputError(f"{path}: cannot read the requirement file ({exc.strerror or exc})") from exc
+    raw = read_input_bytes(path, "requirement file")  # a regular file of at most 256 MiB
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
@@ -451,7 +538,10 @@ def requirement_to_toml(requirement: Requirement) -> str:
 
     raw = requirement.to_raw_dict()
     zener = raw.pop("zener")
+    tables = {values._table.name: raw.pop(values._table.name) for values in requirement.tables}
     top = {k: v for k, v in raw.items() if v is not None}
     if zener is not None:
         top["zener"] = {k: v for k, v in zener.items() if v is not None}
+    for name, given in tables.items():
+        top[name] = dict(given)
     return tomli_w.dumps(top)

@@ -39,14 +39,20 @@ def object_array(values, count: int | None = None) -> np.ndarray:
 
 @dataclass(frozen=True)
 class PointTable:
-    """The points a role evaluates: parallel arrays of length K."""
+    """The points a role evaluates: parallel arrays of length K.
 
-    supply_V: np.ndarray
-    load_A: np.ndarray
+    ``supply_V`` or ``load_A`` may be None for a role without one (an AC
+    rectifier has no DC supply); ``extra`` adds a role's own corner columns,
+    ``(("vac_Vrms", array), ...)``, to every JSON ``corner`` (key = the unit-named JSON key).
+    """
+
+    supply_V: np.ndarray | None
+    load_A: np.ndarray | None
     ambient_C: np.ndarray
     state: tuple[str, ...]
     vz_end: tuple[str | None, ...] | None = None
     resistor_end: tuple[str | None, ...] | None = None
+    extra: tuple[tuple[str, object], ...] = ()
 
     def __len__(self) -> int:
         return len(self.state)
@@ -55,8 +61,16 @@ class PointTable:
         """The JSON ``corner`` of one point (None for index −1)."""
         if index < 0:
             return None
-        out = {"supply_V": float(self.supply_V[index]), "load_A": float(self.load_A[index]),
-               "ambient_C": float(self.ambient_C[index]), "state": self.state[index]}
+        out = {}
+        if self.supply_V is not None:
+            out["supply_V"] = float(self.supply_V[index])
+        for key, column in self.extra:
+            value = column[index]
+            out[key] = value if isinstance(value, str) or value is None else float(value)
+        if self.load_A is not None:
+            out["load_A"] = float(self.load_A[index])
+        out["ambient_C"] = float(self.ambient_C[index])
+        out["state"] = self.state[index]
         if self.vz_end is not None:
             out["vz_end"] = self.vz_end[index]
             out["resistor_end"] = self.resistor_end[index]

@@ -391,6 +391,10 @@ def run_check(requirement, parts: list[dict], *, policies: dict | None = None, l
                       "listed": len(entries)}
     if reviewer:
         out["reviewer"] = reviewer
+    if role.cautions:
+        out["cautions"] = list(role.cautions)  # the role's own, beside the general ones of the reports
+    if role.method_notes:
+        out["method"] = list(role.method_notes)
     out["subject_passed"] = subject_passed
     return out
 

@@ -16,7 +16,7 @@ import os
 import sys
 
 from partpick import __version__
-from partpick.errors import InputError, LibraryError
+from partpick.errors import InputError, LibraryError, OutputError
 
 EXIT_PASS, EXIT_ERROR, EXIT_BAD_INPUT, EXIT_FAIL = 0, 1, 2, 3
 
@@ -57,6 +57,30 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def _say(error: Exception) -> None:
+    """One line on stderr; never a raw control character (a part number may carry one)."""
+    from partpick.text import terminal_safe
+
+    text = " ".join(str(error).split("\n")) if "\n" in str(error) else str(error)
+    print(f"partpick: {terminal_safe(text, keep='')}", file=sys.stderr)
+
+
+def _flush_stdout() -> None:
+    """Flush what print() buffered: a full stdout is one line and exit 1, not a traceback at exit."""
+    try:
+        sys.stdout.flush()
+    except BrokenPipeError:
+        raise
+    except OSError as error:
+        _quiet_stdout()
+        raise OutputError(f"cannot write standard output: {error.strerror or error}") from error
+
+
+def _quiet_stdout() -> None:
+    devnull = os.open(os.devnull, os.O_WRONLY)
+    os.dup2(devnull, sys.stdout.fileno())
+
+
 def main(argv: list[str] | None = None) -> int:
     """Entry point of the `partpick` console script."""
     try:
@@ -66,20 +90,21 @@ def main(argv: list[str] | None = None) -> int:
             from partpick.cli import app
 
             return app.run(args)
-        return int(args.func(args))
+        code = int(args.func(args))
+        _flush_stdout()
+        return code
     except InputError as exc:
-        print(f"partpick: {exc}", file=sys.stderr)
+        _say(exc)
         return EXIT_BAD_INPUT
-    except LibraryError as exc:
-        print(f"partpick: {exc}", file=sys.stderr)
+    except (LibraryError, OutputError) as exc:
+        _say(exc)
         return EXIT_ERROR
     except KeyboardInterrupt:
         print("partpick: interrupted", file=sys.stderr)
         return EXIT_ERROR
     except BrokenPipeError:
         # the reader (`| head`) went away: stop quietly, as other command-line tools do
-        devnull = os.open(os.devnull, os.O_WRONLY)
-        os.dup2(devnull, sys.stdout.fileno())
+        _quiet_stdout()
         return EXIT_ERROR
 
 

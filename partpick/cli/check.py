@@ -10,12 +10,11 @@ from __future__ import annotations
 
 import argparse
 import json
-import sys
-from pathlib import Path
 
 from partpick.checks.policy import load_policies  # noqa: F401 (kept importable from here)
 from partpick.cli import add_library_option
 from partpick.errors import InputError
+from partpick.outputs import write_stdout
 
 EXIT_PASS, EXIT_FAIL = 0, 3
 FORMATS = ("table", "json", "csv", "html", "pdf")
@@ -56,12 +55,36 @@ def run(args) -> int:
     from partpick.checks.requirement import load_requirement
     from partpick.checks.service import run_check
 
+    from partpick.library.db import library_file
+    from partpick.outputs import prepare_output, refuse_binary_terminal
+    from partpick.text import normalise_text, text_problem
+
+    binary = args.format == "pdf"
+    location = getattr(args, "library", None)
+    # Every refusal of the output comes before anything runs (SPEC §5).
+    if args.output is not None:
+        target = prepare_output(args.output, inputs=[args.requirement], library=library_file(location), binary=binary)
+    else:
+        target = None
+        if binary:
+            refuse_binary_terminal()
+    if args.reviewer is not None:
+        args.reviewer = normalise_text(args.reviewer)
+        reason = text_problem(args.reviewer, printable_only=True)
+        if reason is not None:
+            raise InputError(f"--reviewer {reason}")
     requirement = load_requirement(args.requirement)
     if args.part is not None and args.substitutes_for is not None:
         raise InputError("partpick check: --part and --substitutes-for cannot be combined")
     from partpick.library.store import open_library
 
-    with open_library(getattr(args, "library", None)) as library:
+    with open_library(location) as library:
+        if library.note:  # e.g. migrated from an older schema, and where the backup is
+            import sys
+
+            from partpick.text import terminal_safe
+
+            print(f"partpick: {terminal_safe(library.note, keep='')}", file=sys.stderr)
         parts = library.list_parts()
         policies = load_policies(library)
         info = {"location": library.location, "content_hash": library.content_hash(parts)}
@@ -70,7 +93,10 @@ def run(args) -> int:
                        reviewer=args.reviewer)
     parts_by_number = {p["part_number"]: p for p in parts}
     data = _render(result, args.format, parts_by_number, requirement, args)
-    _write(data, args.output)
+    if target is not None:
+        target.write(data)
+    else:
+        write_stdout(data, binary=binary)
     return EXIT_PASS if result["subject_passed"] else EXIT_FAIL
 
 
@@ -96,15 +122,3 @@ def _plain_table(result: dict) -> str:
         lines.append(f"{c['rank']:>4}  {c['part_number']:<20} {c['kind']:<14} {'yes' if c['passed'] else 'no':<6}  "
                      f"{first}")
     return "\n".join(lines) + "\n"
-
-
-def _write(data: bytes, output: str | None) -> None:
-    if output is None:
-        sys.stdout.buffer.write(data)
-        sys.stdout.flush()
-        return
-    path = Path(output)
-    try:
-        path.write_bytes(data)
-    except OSError as exc:
-        raise InputError(f"--output {output}: cannot write ({exc.strerror or exc})") from exc

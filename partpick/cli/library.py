@@ -11,6 +11,8 @@ import sys
 
 from partpick.cli import add_library_option
 from partpick.errors import InputError
+from partpick.outputs import write_stdout
+from partpick.text import terminal_safe
 
 # Columns of `library list` (the table form); the JSON form has every CSV key.
 _TABLE_COLUMNS = (
@@ -37,7 +39,10 @@ def register(subparsers) -> None:
 
     importing = commands.add_parser("import", help="import parts from a CSV file (all rows or none)")
     importing.add_argument("csv", metavar="F.csv", help="the parts CSV (SPEC columns, any order)")
-    importing.add_argument("--dry-run", action="store_true", help="check the file and report; write nothing")
+    importing.add_argument("--dry-run", action="store_true",
+                           help="check the file and list per part what would change; write nothing")
+    importing.add_argument("--replace", action="store_true",
+                           help="rows replace stored parts whole (default: a row updates the columns it carries)")
     add_library_option(importing)
     importing.set_defaults(func=_import)
 
@@ -61,7 +66,7 @@ def _open(args):
 
     library = open_library(getattr(args, "library", None))
     if library.note:  # e.g. an older library was migrated (and where its backup is)
-        print(f"partpick: {library.note}", file=sys.stderr)
+        print(f"partpick: {terminal_safe(library.note, keep='')}", file=sys.stderr)
     return library
 
 
@@ -73,7 +78,7 @@ def _new(args) -> int:
     if "://" not in args.path and Path(args.path).exists():
         raise InputError(f"library new: {args.path} already exists (choose a new file name)")
     with open_library(args.path, create=True) as library:
-        print(f"created library {library.location}")
+        write_stdout(f"created library {library.location}\n")
     return 0
 
 
@@ -84,20 +89,29 @@ def _import(args) -> int:
             def progress(done: int, total: int) -> None:
                 print(f"\rimporting… {100 * done // max(total, 1):3d} %", end="", file=sys.stderr, flush=True)
         try:
-            summary = library.import_csv(args.csv, dry_run=args.dry_run, progress=progress)
+            summary = library.import_csv(args.csv, dry_run=args.dry_run, replace=args.replace, progress=progress)
         finally:
             if progress is not None:
                 print("\r", end="", file=sys.stderr)
-        print(summary.text())
+    lines = [summary.text()]
+    if args.dry_run:
+        lines += [f"  {line}" for line in summary.change_lines()]
+    write_stdout("\n".join(terminal_safe(line, keep="") for line in lines) + "\n")
     return 0
 
 
 def _export(args) -> int:
+    from partpick.library.db import library_file
+    from partpick.outputs import prepare_output
+
+    location = getattr(args, "library", None)
+    target = prepare_output(args.output, library=library_file(location)) if args.output else None
     with _open(args) as library:
-        if args.output:
-            library.export_csv(args.output)
-        else:
-            library.export_csv(sys.stdout)
+        text = library.export_csv_text()
+    if target is not None:
+        target.write(text.encode("utf-8"))
+    else:
+        write_stdout(text)
     return 0
 
 
@@ -112,8 +126,7 @@ def _list(args) -> int:
             record = {name: part[name] for name in FIELD_NAMES}
             record["vf_points"] = [list(point) for point in part["vf_points"]]
             records.append(record)
-        json.dump(records, sys.stdout, indent=2, ensure_ascii=False, allow_nan=False)
-        sys.stdout.write("\n")
+        write_stdout(json.dumps(records, indent=2, ensure_ascii=False, allow_nan=False) + "\n")
         return 0
     from partpick.units import format_quantity
 
@@ -127,8 +140,9 @@ def _list(args) -> int:
             else:
                 row.append("" if value is None else str(value))
         table.append(row)
+    table = [[terminal_safe(cell, keep="") for cell in row] for row in table]
     widths = [max(len(row[i]) for row in table) for i in range(len(_TABLE_COLUMNS))]
-    for row in table:
-        print("  ".join(cell.ljust(width) for cell, width in zip(row, widths)).rstrip())
-    print(f"{len(parts)} part{'s' if len(parts) != 1 else ''} in {library.location}")
+    lines = ["  ".join(cell.ljust(width) for cell, width in zip(row, widths)).rstrip() for row in table]
+    lines.append(f"{len(parts)} part{'s' if len(parts) != 1 else ''} in {library.location}")
+    write_stdout("\n".join(lines) + "\n")
     return 0

@@ -9,11 +9,12 @@ transcribed.
 
 from __future__ import annotations
 
-import sys
 from pathlib import Path
 
 from partpick.cli import add_library_option
 from partpick.errors import InputError
+from partpick.outputs import write_stdout
+from partpick.text import terminal_safe
 
 
 def register(subparsers) -> None:
@@ -71,46 +72,51 @@ def _list(args) -> int:
     with _open(args) as library:
         policies = _all_policies(library)
     width = max(len(n) for n in policies)
+    lines = []
     for name in sorted(policies, key=lambda n: (not policies[n].builtin, n)):
         policy = policies[name]
         where = "built-in" if policy.builtin else "library"
-        print(f"{name:<{width}}  {where:<8}  {policy.description}")
+        lines.append(terminal_safe(f"{name:<{width}}  {where:<8}  {policy.description}", keep=""))
+    write_stdout("\n".join(lines) + "\n")
     return 0
 
 
 def _show(args) -> int:
     from partpick.checks.policy import policy_to_toml
 
-    sys.stdout.write(policy_to_toml(_find(args)))
+    write_stdout(policy_to_toml(_find(args)))
     return 0
 
 
 def _import(args) -> int:
     from partpick.checks.policy import BUILTIN_POLICIES, policy_from_toml
 
+    from partpick.inputs import read_input_bytes
+
     path = Path(args.file)
     try:
-        text = path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(f"{path}: cannot read the policy file ({getattr(exc, 'strerror', None) or exc})") from exc
+        text = read_input_bytes(path, "policy file").decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{path}: cannot read the policy file (not UTF-8 text: {exc.reason})") from exc
     policy = policy_from_toml(text, str(path))
     if policy.name in BUILTIN_POLICIES:
         raise InputError(f"{path}: name {policy.name!r} is a built-in policy; give yours its own name")
     with _open(args) as library:
         library.save_policy(policy.to_dict())
-        print(f"stored policy {policy.name} in {library.location}")
+        write_stdout(f"stored policy {policy.name} in {library.location}\n")
     return 0
 
 
 def _export(args) -> int:
     from partpick.checks.policy import policy_to_toml
+    from partpick.library.db import library_file
+    from partpick.outputs import prepare_output
 
+    location = getattr(args, "library", None)
+    target = prepare_output(args.output, library=library_file(location)) if args.output is not None else None
     text = policy_to_toml(_find(args))
-    if args.output is None:
-        sys.stdout.write(text)
-        return 0
-    try:
-        Path(args.output).write_text(text, encoding="utf-8")
-    except OSError as exc:
-        raise InputError(f"--output {args.output}: cannot write ({exc.strerror or exc})") from exc
+    if target is None:
+        write_stdout(text)
+    else:
+        target.write(text.encode("utf-8"))
     return 0

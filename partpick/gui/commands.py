@@ -19,7 +19,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Callable, Protocol
 
-from partpick.errors import InputError, LibraryError
+from partpick.errors import InputError, LibraryError, OutputError
 from partpick.gui.models import LibraryModel, RequirementModel, ResultModel
 from partpick.gui.observer import Signal
 
@@ -62,6 +62,7 @@ class Command:
     run: Callable[["Workbench"], object]
     tip: str = ""
     needs_part: bool = False  # enabled only when a library part is selected
+    edits_library: bool = False  # disabled when the library is read-only
 
 
 COMMANDS: dict[str, Command] = {}
@@ -86,13 +87,22 @@ def run_command(bench: "Workbench", command_id: str):
         return None
 
 
-def command(id: str, title: str, menu: str, *shortcuts: str, tip: str = "", needs_part: bool = False):
+def command(id: str, title: str, menu: str, *shortcuts: str, tip: str = "", needs_part: bool = False,
+            edits_library: bool = False):
     """Register the decorated function as a command (once; a second id is a bug)."""
 
     def register(function):
         if id in COMMANDS:
             raise RuntimeError(f"command {id!r} registered twice")
-        COMMANDS[id] = Command(id, title, menu, tuple(shortcuts), function, tip, needs_part)
+        run = function
+        if edits_library:
+            def run(bench, _function=function, _title=title.replace("&", "").rstrip("…")):
+                if bench.read_only:
+                    bench.prompt.show_error(_title, "The library is read-only: it can be read and checked, "
+                                                    "not changed. Open a writable copy to edit it.")
+                    return None
+                return _function(bench)
+        COMMANDS[id] = Command(id, title, menu, tuple(shortcuts), run, tip, needs_part, edits_library)
         return function
 
     return register
@@ -222,6 +232,25 @@ class Workbench:
             setattr(self, name, recent)
             self.recent_changed.emit()
 
+    @property
+    def read_only(self) -> bool:
+        """True when the open library can only be read (a read-only file, folder or server role)."""
+        library = self.library.library
+        return bool(library is not None and getattr(library, "read_only", False))
+
+    @property
+    def library_path(self):
+        """The open library's file (None for none or a server library); outputs must never be it."""
+        library = self.library.library
+        return getattr(library, "path", None) if library is not None else None
+
+    def output_target(self, path, *, binary: bool = False):
+        """`partpick.outputs.prepare_output` for a window command: never the library or the requirement file."""
+        from partpick.outputs import prepare_output
+
+        return prepare_output(path, library=self.library_path, inputs=[self.requirement.path], binary=binary,
+                              option="output")
+
     def has_library(self, title: str) -> bool:
         """True when a library is open; otherwise tell the user and return False."""
         if self.library.library is None:
@@ -233,7 +262,11 @@ class Workbench:
         """Open (or create) a library and make it the window's (LibraryError if it cannot)."""
         from partpick.library.store import open_library
 
-        self.library.set_library(open_library(location, create=create))
+        library = open_library(location, create=create)
+        self.library.set_library(library)
+        note = getattr(library, "note", None)
+        if note and note.startswith("migrated") and self.prompt is not None:
+            self.prompt.show_info("Library migrated", note)  # says where the backup of the old file is
 
     # -- checking -----------------------------------------------------------
     def check_job(self, generation: int = 0, **options) -> CheckJob:
@@ -336,13 +369,11 @@ def unsaved_requirement_answer(bench: Workbench) -> bool:
 
 def load_requirement_file(bench: Workbench, path: str | Path) -> None:
     """Read a requirement TOML into the form (the checker's reader judges it first)."""
-    import tomllib
-
     from partpick.checks.requirement import load_requirement
+    from partpick.inputs import parse_toml, read_input_bytes
 
-    load_requirement(path)  # InputError naming file, line and key
-    with open(path, "rb") as handle:
-        data = tomllib.load(handle)
+    load_requirement(path)  # InputError naming file, line and key (a bounded reader)
+    data = parse_toml(read_input_bytes(path, "requirement file").decode("utf-8"), str(path))
 
     def load() -> None:
         bench.requirement.load_dict(data, source=str(path))
@@ -368,10 +399,12 @@ def open_requirement(bench: Workbench) -> None:
 def save_requirement_file(bench: Workbench, path: str | Path) -> None:
     from partpick.checks.requirement import requirement_to_toml
 
+    from partpick.outputs import prepare_output
+
+    # Never onto the library (or any database); the requirement's own file is its output here.
+    target = prepare_output(path, library=bench.library_path, option="save to")
     text = requirement_to_toml(bench.requirement.build_requirement())
-    tmp = Path(f"{path}.tmp")
-    tmp.write_text(text, encoding="utf-8")
-    tmp.replace(path)  # whole file or nothing
+    target.write(text.encode("utf-8"))  # whole file or nothing
     bench.requirement.path = str(path)
     bench.requirement.modified = False
     bench.add_recent(str(Path(path).resolve()), kind="requirements")
@@ -394,7 +427,7 @@ def save_requirement_as(bench: Workbench) -> None:
 def _save_requirement_reporting(bench: Workbench, path) -> None:
     try:
         save_requirement_file(bench, path)
-    except (InputError, OSError) as exc:
+    except (InputError, OutputError, OSError) as exc:
         bench.prompt.show_error("Save requirement", f"Not saved: {exc}")
 
 
@@ -408,14 +441,13 @@ def export_report_file(bench: Workbench, path: str | Path, fmt: str | None = Non
     fmt = fmt or Path(path).suffix.lstrip(".").lower()
     if fmt not in ("html", "pdf"):
         raise InputError(f"report: {Path(path).name!r}: give a .html or .pdf file name")
+    target = bench.output_target(path, binary=fmt == "pdf")  # refused before anything runs
     job = bench.check_job()
     result, _ = job.run()
     parts_by_number = {p["part_number"]: p for p in job.parts}
     data = render(result, fmt, parts_by_number=parts_by_number, requirement=job.requirement,
                   part=bench.selected_candidate())
-    tmp = Path(f"{path}.tmp")
-    tmp.write_bytes(data)
-    tmp.replace(path)
+    target.write(data)
 
 
 @command("report.export", "&Export report…", "File", "Ctrl+E",
@@ -429,7 +461,7 @@ def export_report(bench: Workbench) -> None:
         return
     try:
         export_report_file(bench, path)
-    except (InputError, OSError, LibraryError) as exc:
+    except (InputError, OutputError, OSError, LibraryError) as exc:
         bench.prompt.show_error("Export report", f"No report written: {exc}")
 
 
@@ -440,8 +472,9 @@ def export_curves(bench: Workbench) -> None:
     if not path:
         return
     try:
-        bench.prompt.export_curves(path)
-    except (OSError, RuntimeError) as exc:
+        target = bench.output_target(path)  # never the library or the requirement file
+        bench.prompt.export_curves(str(target.resolved))  # written through partpick.outputs
+    except (InputError, OSError, RuntimeError) as exc:
         bench.prompt.show_error("Save curves image", f"No image written: {exc}")
 
 
@@ -517,7 +550,7 @@ def _problem_lines(exc: InputError) -> list[str]:
     return [str(exc)]
 
 
-@command("library.import", "&Import CSV…", "Library", "Ctrl+I", tip="Import parts from a CSV file")
+@command("library.import", "&Import CSV…", "Library", "Ctrl+I", tip="Import parts from a CSV file", edits_library=True)
 def import_csv(bench: Workbench) -> None:
     if not bench.has_library("Import CSV"):
         return
@@ -534,14 +567,15 @@ def export_csv(bench: Workbench) -> None:
     if not path:
         return
     try:
-        bench.library.library.export_csv(path)
-    except (LibraryError, OSError) as exc:
+        target = bench.output_target(path)
+        bench.library.library.export_csv(target)
+    except (LibraryError, InputError, OutputError, OSError) as exc:
         bench.prompt.show_error("Export CSV", str(exc))
 
 
 # ---------------------------------------------------------------------------
 # Part (library table selection)
-@command("part.add", "&Add part…", "Part", "Ins", tip="Enter a new part")
+@command("part.add", "&Add part…", "Part", "Ins", tip="Enter a new part", edits_library=True)
 def add_part(bench: Workbench) -> None:
     from partpick.gui.undo import SavePart
 
@@ -552,7 +586,7 @@ def add_part(bench: Workbench) -> None:
         _push(bench, SavePart(bench.library, part, None))
 
 
-@command("part.edit", "&Edit part…", "Part", "F2", needs_part=True)
+@command("part.edit", "&Edit part…", "Part", "F2", needs_part=True, edits_library=True)
 def edit_part(bench: Workbench) -> None:
     from partpick.gui.undo import SavePart
 
@@ -564,7 +598,7 @@ def edit_part(bench: Workbench) -> None:
         _push(bench, SavePart(bench.library, part, old["part_number"]))
 
 
-@command("part.duplicate", "&Duplicate part", "Part", "Ctrl+D", needs_part=True)
+@command("part.duplicate", "&Duplicate part", "Part", "Ctrl+D", needs_part=True, edits_library=True)
 def duplicate_part(bench: Workbench) -> None:
     from partpick.gui.undo import SavePart
 
@@ -576,7 +610,7 @@ def duplicate_part(bench: Workbench) -> None:
         bench.select_parts([copy["part_number"]])
 
 
-@command("part.delete", "De&lete part", "Part", "Del", needs_part=True)
+@command("part.delete", "De&lete part", "Part", "Del", needs_part=True, edits_library=True)
 def delete_part(bench: Workbench) -> None:
     from partpick.gui.undo import DeleteParts
 

@@ -27,6 +27,27 @@ CURVE_TABS = (
 )
 
 
+def _role_sections() -> dict[str, set[str]]:
+    """Role → the sections its curves give (`Role.curve_plots`)."""
+    from partpick.checks.roles import ROLES
+
+    return {name: {section for section, _t, _o in role.curve_plots} for name, role in ROLES.items()}
+
+
+def _role_tabs() -> tuple:
+    """One more tab per section a role draws that the common tabs do not show (e.g. an AC cycle)."""
+    from partpick.checks.roles import ROLES
+
+    common = {"forward", "breakdown"} | {key for key, _t, _r in CURVE_TABS}
+    tabs, seen = [], set()
+    for role in ROLES.values():
+        for section, title, options in role.curve_plots:
+            if section not in common and section not in seen:
+                seen.add(section)
+                tabs.append((section, title, ((section, dict(options)),)))
+    return tuple(tabs)
+
+
 def _plots():
     """`partpick.plots`, imported at the first drawing (it loads the physics core, scipy included,
     which the window need not wait for before it is shown)."""
@@ -138,7 +159,7 @@ class _CurvePage(QWidget):
     def _section(self, curves: dict):
         if self.key == "iv":
             return curves.get("breakdown" if curves.get("role") == "zener_shunt" else "forward")
-        return curves.get(_SECTION_OF[self.key])
+        return curves.get(_SECTION_OF.get(self.key, self.key))
 
     def _link_axes(self) -> None:
         """Same scales across parts, so the eye compares curves, not axes."""
@@ -189,7 +210,9 @@ def _composite_svg(widget: QWidget, path, title: str) -> None:
         widget.render(painter, QPoint(), QRegion(), QWidget.RenderFlag.DrawChildren)
     finally:
         painter.end()
-    Path(path).write_bytes(bytes(buffer.data()))
+    from partpick.outputs import write_output
+
+    write_output(path, bytes(buffer.data()))
 
 
 class CurvesView(QWidget):
@@ -224,7 +247,8 @@ class CurvesView(QWidget):
         self.tabs = QTabWidget(self)
         self.tabs.setObjectName("curve_tabs")
         self.pages: dict[str, _CurvePage] = {}
-        for key, title, rows in CURVE_TABS:
+        self._role_sections = _role_sections()
+        for key, title, rows in CURVE_TABS + _role_tabs():
             page = _CurvePage(key, rows, self.readout.emit, self)
             self.pages[key] = page
             self.tabs.addTab(page, title)
@@ -259,7 +283,10 @@ class CurvesView(QWidget):
                     sets.append(curves_for(requirement, part, candidate))
         self.curve_sets = sets
         role = result["requirement"]["role"] if result else "series"
-        self.tabs.setTabVisible(self.tabs.indexOf(self.pages["zener_output"]), role == "zener_shunt")
+        sections = self._role_sections.get(role, set())
+        for key, page in self.pages.items():
+            shown = bool(sections & {"forward", "breakdown"}) if key == "iv" else key in sections
+            self.tabs.setTabVisible(self.tabs.indexOf(page), shown)
         notes = [f"{c['part_number']}: {note}" for c in sets for note in c.get("notes", [])]
         if not sets:
             notes = []

@@ -287,8 +287,10 @@ class MainWindow(QMainWindow):
 
     def _update_location(self) -> None:
         location = self.bench.library.location
-        self.location_label.setText(f"Library: {location}" if location else "No library")
-        self.setWindowTitle(f"partpick — {Path(location).name}" if location else "partpick")
+        marker = " (read-only)" if self.bench.read_only else ""
+        self.location_label.setText(f"Library: {location}{marker}" if location else "No library")
+        self.setWindowTitle(f"partpick — {Path(location).name}{marker}" if location else "partpick")
+        self._update_actions()
 
     def _update_recent(self) -> None:
         self.recent_menu.clear()
@@ -318,9 +320,11 @@ class MainWindow(QMainWindow):
 
     def _update_actions(self) -> None:
         has_part = bool(self.bench.selected_parts)
+        writable = not self.bench.read_only
         for command in COMMANDS.values():
-            if command.needs_part:
-                self.actions[command.id].setEnabled(has_part)
+            if command.needs_part or command.edits_library:
+                self.actions[command.id].setEnabled((has_part or not command.needs_part)
+                                                    and (writable or not command.edits_library))
         stack = self.bench.undo_stack
         self.actions["edit.undo"].setEnabled(stack.canUndo())
         self.actions["edit.redo"].setEnabled(stack.canRedo())

@@ -31,8 +31,17 @@ __all__ = [
     "describe_corner",
 ]
 
+def _registered_roles() -> dict:
+    """The role registry (`partpick.checks.roles`): series and Zener first, then the others by name."""
+    from partpick.checks.roles import ROLES as registry
+
+    first = [n for n in ("series", "zener_shunt") if n in registry]
+    return {name: registry[name] for name in first + sorted(set(registry) - set(first))}
+
+
+_REGISTRY = _registered_roles()
 # SPEC §8: the words on screen for the file values.
-ROLES = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
+ROLES = {name: role.label for name, role in _REGISTRY.items()}
 OBJECTIVES = {
     "balanced": "Balanced",
     "drop": "Lowest drop",
@@ -53,8 +62,11 @@ class ReqField:
     ``kind`` is ``"float"`` (engineering notation in ``unit``), ``"text"``,
     ``"choice"`` (one of ``choices``; "" = default) or ``"list"`` (comma-separated
     words, each one of ``choices`` when those are given).
-    ``group`` places it in the form; ``roles`` says for which roles it applies.
-    ``table`` is ``"zener"`` for the keys of the ``[zener]`` table.
+    ``group`` places it in the form; ``roles`` says for which roles it applies
+    (None: every role that does not list the key in `Role.unused_keys`).
+    ``table`` is ``"zener"`` for the keys of the ``[zener]`` table, or the name
+    of a role's own table (`partpick.checks.role_table`); those fields are
+    keyed ``"<table>.<key>"`` (`toml_key` is the key inside the table).
     """
 
     key: str
@@ -63,11 +75,15 @@ class ReqField:
     unit: str = ""
     required: bool = False
     group: str = "Circuit"
-    roles: tuple[str, ...] = ("series", "zener_shunt")
+    roles: tuple[str, ...] | None = None
     table: str = ""
     choices: tuple[str, ...] = ()
     minimum: float | None = None
     help: str = ""
+
+    @property
+    def toml_key(self) -> str:
+        return self.key.split(".", 1)[1] if self.table and "." in self.key else self.key
 
 
 def _zf(key, label, unit, required=False, help="", minimum=None, kind="float", choices=()):
@@ -129,7 +145,26 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
     _zf("resistor_ohm", "Fixed resistor", "Ω", minimum=0.0,
         help="Review a finished design with this resistor instead of sizing one."),
 )
+
+
+def _role_group_fields() -> tuple[ReqField, ...]:
+    """The fields of every role's own table, from its Qt-free `FormGroup` (`Role.form_group`)."""
+    out = []
+    for role in _REGISTRY.values():
+        group = role.form_group()
+        if group is None:
+            continue
+        for f in group.fields:
+            out.append(ReqField(f"{group.table}.{f.key}", f.label, f.kind, f.unit, f.required, group.role,
+                                (group.role,), group.table, f.choices, f.minimum, f.help))
+    return tuple(out)
+
+
+ROLE_GROUPS = {role.name: role.form_group().title for role in _REGISTRY.values() if role.table is not None}
+"""Role → the title of its own group in the form."""
+REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + _role_group_fields()
 FIELDS_BY_KEY = {f.key: f for f in REQUIREMENT_FIELDS}
+ROLE_TABLES = {f.table for f in REQUIREMENT_FIELDS if f.table and f.table != "zener"}
 
 
 @dataclass
@@ -144,6 +179,8 @@ class FieldState:
 def _format_value(spec: ReqField, value) -> str:
     if value is None:
         return ""
+    if isinstance(value, bool):
+        return "true" if value else "false"
     if spec.kind == "float":
         return re.sub(r"(?<=[\d ])u(?=[A-Za-zΩ]|$)", "µ", format_quantity(float(value), spec.unit))
     if spec.kind == "list":
@@ -165,6 +202,8 @@ def _parse_field(spec: ReqField, text: str):
     if spec.kind == "choice":
         if spec.choices and raw not in spec.choices:
             raise InputError(f"{spec.label}: {raw!r} is not one of {', '.join(spec.choices)}")
+        if spec.choices == ("true", "false"):
+            return raw == "true"
         return raw
     if spec.kind == "list":
         words = [w.strip() for w in raw.split(",")]
@@ -227,7 +266,11 @@ class RequirementModel:
 
     def applies(self, key: str) -> bool:
         """Whether a field belongs to the current role's requirement."""
-        return self.role in FIELDS_BY_KEY[key].roles
+        spec = FIELDS_BY_KEY[key]
+        if spec.roles is not None:
+            return self.role in spec.roles
+        role = _REGISTRY.get(self.role)
+        return role is None or key not in role.unused_keys
 
     def text(self, key: str) -> str:
         return self.fields[key].text
@@ -343,13 +386,12 @@ class RequirementModel:
 
     def load_dict(self, data: dict, *, source: str = "window") -> None:
         """Replace every field from a requirement dict (the TOML's keys, `[zener]` as a sub-dict)."""
-        zener = data.get("zener") or {}
-        known = set(FIELDS_BY_KEY) | {"zener"}
+        known = set(FIELDS_BY_KEY) | {"zener"} | ROLE_TABLES
         unknown = sorted(set(data) - known)
         if unknown:
             raise InputError(f"{source}: unknown requirement key(s) {', '.join(unknown)}")
         for spec in REQUIREMENT_FIELDS:
-            value = zener.get(spec.key) if spec.table == "zener" else data.get(spec.key)
+            value = (data.get(spec.table) or {}).get(spec.toml_key) if spec.table else data.get(spec.key)
             state = self.fields[spec.key]
             state.text = _format_value(spec, value)
             try:
@@ -376,16 +418,15 @@ class RequirementModel:
         if errors:
             raise InputError("; ".join(errors.values()))
         data: dict = {}
-        zener: dict = {}
         for spec in REQUIREMENT_FIELDS:
             if not self.applies(spec.key):
                 continue
+            if spec.table:
+                data.setdefault(spec.table, {})
             value = self.fields[spec.key].value
             if value is None:
                 continue
-            (zener if spec.table == "zener" else data)[spec.key] = value
-        if self.role == "zener_shunt":
-            data["zener"] = zener
+            (data[spec.table] if spec.table else data)[spec.toml_key] = value
         return data
 
     def build_requirement(self):
@@ -612,6 +653,11 @@ def describe_corner(corner: dict | None) -> str:
     if not corner:
         return ""
     bits = []
+    for key, value in corner.items():  # a role's own corner columns (e.g. the AC voltage) lead
+        if key.endswith("_Vrms") and value is not None:
+            bits.append(format_quantity(value, "V", digits=3) + " rms")
+        elif key.endswith("_F") and value is not None:
+            bits.append(re.sub(r"(?<=[\d ])u(?=F)", "µ", format_quantity(value, "F", digits=3)))
     if corner.get("supply_V") is not None:
         bits.append(format_quantity(corner["supply_V"], "V", digits=3))
     if corner.get("load_A") is not None:

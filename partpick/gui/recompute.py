@@ -15,6 +15,7 @@ import time
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, QTimer, Signal
 
 from partpick.errors import InputError, LibraryError
+from partpick.gui.collector import install_collector
 
 __all__ = ["Rechecker", "DEBOUNCE_MS", "THREAD_THRESHOLD", "SHORTLIST_LIMIT"]
 
@@ -73,6 +74,7 @@ class Rechecker(QObject):
         self.pending = 0
         self.last_started = 0.0
         self._pool = QThreadPool.globalInstance()
+        install_collector()  # a worker thread must never run the cyclic collector (see gui/collector.py)
         self._relay = _Relay(self)
         self._relay.done.connect(self._apply)
         self._relay.failed.connect(self._fail)

@@ -13,7 +13,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from partpick.gui.models import OBJECTIVES, REQUIREMENT_FIELDS, ROLES, RequirementModel
+from partpick.gui.models import OBJECTIVES, REQUIREMENT_FIELDS, ROLE_GROUPS, ROLES, RequirementModel
 from partpick.gui.widgets import ERROR_COLOR, FieldEdit
 
 __all__ = ["RequirementView"]
@@ -23,6 +23,7 @@ _GROUPS = (
     ("Margins", "Derating policy and margins"),
     ("Limits", "Limits"),
     ("Zener", "Zener shunt regulator"),
+    *ROLE_GROUPS.items(),  # each role's own table (group = the role's name)
     ("Filters", "Candidate filters"),
 )
 # An example per field, of the size that field usually holds (not one per unit: "Max leakage: e.g.
@@ -172,6 +173,8 @@ class RequirementView(QScrollArea):
         for key, (form, widget) in self.rows.items():
             form.setRowVisible(widget, self.model.applies(key))
         self.groups["Zener"].setVisible(role == "zener_shunt")
+        for name in ROLE_GROUPS:
+            self.groups[name].setVisible(role == name)
 
     def _update_form_error(self) -> None:
         text = self.model.form_error if self.model.form_error and not self.model.form_error_key else ""

@@ -29,7 +29,9 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from partpick.errors import InputError
+from partpick.inputs import bounded_list, read_input_bytes, read_stream_bytes
 from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, PART_FIELDS, FieldSpec
+from partpick.text import normalise_text
 from partpick.units import parse_quantity
 
 __all__ = [
@@ -63,6 +65,7 @@ class CsvRow:
 
     line: int
     part: dict
+    columns: frozenset = frozenset(FIELD_NAMES)  # the columns the file carries (a row updates only these)
 
 
 @dataclass(frozen=True)
@@ -96,7 +99,7 @@ class CsvInputError(InputError):
         self.problems = list(problems)
         rows = {p.line for p in self.problems if p.line is not None}
         count = f"{len(rows)} bad row{'s' if len(rows) != 1 else ''}" if rows else "bad file"
-        details = "; ".join(p.text() for p in self.problems)
+        details = bounded_list([p.text() for p in self.problems])
         super().__init__(f"{source}: {count}, {what}: {details}")
 
 
@@ -183,13 +186,10 @@ def _read_source(source) -> tuple[str, str]:
     """(text, name for messages) of a path or a text/binary stream."""
     if isinstance(source, (str, Path)):
         path = Path(source)
-        try:
-            data = path.read_bytes()
-        except OSError as error:
-            raise InputError(f"cannot read {path}: {error.strerror or error}") from error
+        data = read_input_bytes(path, "CSV file")
         return _decode(data, str(path)), str(path)
     name = str(getattr(source, "name", "<input>"))
-    data = source.read()
+    data = read_stream_bytes(source, name, "CSV file")
     if isinstance(data, bytes):
         return _decode(data, name), name
     return data.removeprefix("\ufeff"), name
@@ -202,7 +202,7 @@ def _parse_cell(spec: FieldSpec, cell: str):
         return parse_number(cell, spec)
     if spec.type == "points":
         return parse_points(cell)
-    text = unguard_text(cell)
+    text = normalise_text(unguard_text(cell))
     if spec.type == "choice" and text not in spec.choices:
         raise InputError(f"{text!r} is not allowed (allowed: {spec.range_text()})")
     return text if text != "" else None
@@ -260,6 +260,7 @@ def read_parts_csv(
         raise CsvInputError(name, problems)
     specs = [FIELDS_BY_NAME[column] for column in header]
     absent = [spec for spec in PART_FIELDS if spec.name not in seen]
+    carried = frozenset(seen)
 
     records: list[tuple[int, list[str]]] = []
     next_line = reader.line_num + 1
@@ -295,7 +296,7 @@ def read_parts_csv(
                 part[spec.name] = [] if spec.type == "points" else None
         for spec in absent:
             part[spec.name] = [] if spec.type == "points" else None
-        rows.append(CsvRow(line, {key: part[key] for key in FIELD_NAMES}))
+        rows.append(CsvRow(line, {key: part[key] for key in FIELD_NAMES}, carried))
         if index % 500 == 0:
             if progress is not None:
                 progress(index, total)

@@ -210,6 +210,7 @@ PART_FIELDS: tuple[FieldSpec, ...] = (
 
 FIELDS_BY_NAME: dict[str, FieldSpec] = {spec.name: spec for spec in PART_FIELDS}
 FIELD_NAMES: tuple[str, ...] = tuple(spec.name for spec in PART_FIELDS)
+_TEXT_FIELDS: tuple[str, ...] = tuple(spec.name for spec in PART_FIELDS if spec.type in ("text", "choice"))
 
 # Fields that must be given together (a value means little without its partner).
 _PAIRS = (("vf_max_V", "vf_max_at_A"), ("ir_A", "ir_vr_V"), ("ir_hot_A", "ir_hot_t_C"),
@@ -446,6 +447,11 @@ def part_problems(part: dict) -> list[tuple[str | None, str]]:
             f"{who}: izk_A = {given['izk_A']:g} A is not below izt_A = {given['izt_A']:g} A "
             "(allowed: izk_A < izt_A)"
         )
+
+    from partpick.library.rules import contradiction_problems, text_field_problems
+
+    problems.extend(text_field_problems(part, _TEXT_FIELDS, who))
+    problems.extend(contradiction_problems(given, who))
 
     for name in ("ppp_waveform", "ppp2_waveform"):
         if has(name):

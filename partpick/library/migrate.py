@@ -6,9 +6,10 @@ Opening a location goes through `prepare_database` first:
   row, is refused with `LibraryError` and left untouched (the probe opens it
   without any set-up that writes, e.g. no WAL switch);
 - a library written by a newer partpick is refused;
-- an older library is copied next to itself (``NAME.schemaN.backup``, with the
-  SQLite backup API so a live WAL is included) and then migrated step by step,
-  all steps in one transaction.
+- an older library is copied next to itself once per old version
+  (``NAME.backup-vN``, with the SQLite backup API so a live WAL is included; an
+  existing backup of that version is kept, not repeated) and then migrated step
+  by step, all steps in one transaction; the note says where the backup is.
 
 A migration step is a function ``step(operations)`` receiving alembic's
 `Operations` bound to the open transaction (portable ALTER TABLE, SQLite
@@ -29,7 +30,7 @@ from partpick.errors import LibraryError
 from partpick.library import models
 from partpick.library.db import one_line, sqlite_path
 
-__all__ = ["MIGRATIONS", "SQLITE_MAGIC", "probe_version", "prepare_database", "backup_sqlite"]
+__all__ = ["MIGRATIONS", "SQLITE_MAGIC", "probe_version", "prepare_database", "backup_sqlite", "backup_path"]
 
 SQLITE_MAGIC = b"SQLite format 3\x00"
 
@@ -84,7 +85,7 @@ def _check_sqlite_file(path: Path, location: str) -> None:
         raise LibraryError(f"{location} is not a partpick library (not an SQLite database file); left untouched")
 
 
-def probe_version(url: URL, location: str) -> int | None:
+def probe_version(url: URL, location: str, *, read_only: bool = False) -> int | None:
     """The schema version of the library at ``url``; None for an empty database.
 
     Raises
@@ -92,7 +93,13 @@ def probe_version(url: URL, location: str) -> int | None:
     LibraryError
         The database has tables but is not a partpick library, or cannot be read.
     """
-    engine = create_engine(url)
+    if read_only and sqlite_path(url) is not None:
+        from partpick.library.db import sqlite_read_only_connect
+
+        path = sqlite_path(url)
+        engine = create_engine(url, creator=lambda: sqlite_read_only_connect(path))
+    else:
+        engine = create_engine(url)
     try:
         with engine.connect() as connection:
             if url.get_backend_name() == "sqlite":
@@ -118,26 +125,37 @@ def probe_version(url: URL, location: str) -> int | None:
     return int(rows[0].version)
 
 
-def backup_sqlite(path: Path, version: int) -> Path:
-    """Copy a SQLite library next to itself before a migration; returns the copy's path."""
-    target = path.with_name(f"{path.name}.schema{version}.backup")
-    counter = 2
-    while target.exists():
-        target = path.with_name(f"{path.name}.schema{version}.backup{counter}")
-        counter += 1
+def backup_path(path: Path, version: int) -> Path:
+    """Where the backup of ``path`` at schema ``version`` goes: ``NAME.backup-v<version>`` beside it."""
+    return path.with_name(f"{path.name}.backup-v{version}")
+
+
+def backup_sqlite(path: Path, version: int) -> tuple[Path, bool]:
+    """Copy a SQLite library next to itself before a migration; (the copy's path, made now).
+
+    One backup per old version: when ``NAME.backup-v<version>`` exists already
+    (an earlier attempt that failed and rolled back), it is kept as it is and
+    no second copy is made. The copy is written to a temporary file and renamed,
+    so an interrupted backup leaves no partial file under the backup's name.
+    """
+    target = backup_path(path, version)
+    if target.exists():
+        return target, False
+    temporary = target.with_name(f".{target.name}.partpick-tmp")
     source = sqlite3.connect(path)
     try:
-        destination = sqlite3.connect(target)
+        destination = sqlite3.connect(temporary)
         try:
             source.backup(destination)
         finally:
             destination.close()
-    except sqlite3.Error as error:
-        target.unlink(missing_ok=True)
+        temporary.replace(target)
+    except (sqlite3.Error, OSError) as error:
+        temporary.unlink(missing_ok=True)
         raise LibraryError(f"cannot back up {path} before migrating it: {error}; left untouched") from error
     finally:
         source.close()
-    return target
+    return target, True
 
 
 def _create_schema(engine: Engine) -> None:
@@ -177,7 +195,7 @@ def _migrate(engine: Engine, version: int) -> None:
                 connection.connection.dbapi_connection.execute("PRAGMA foreign_keys = ON")
 
 
-def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -> str | None:
+def prepare_database(url: URL, location: str, engine: Engine, *, create: bool, read_only: bool = False) -> str | None:
     """Make the database at ``url`` a usable library of the current schema.
 
     Parameters
@@ -200,8 +218,10 @@ def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -
                 raise LibraryError(f"cannot create library {location}: folder {path.parent} does not exist")
         else:
             _check_sqlite_file(path, location)
-    version = None if path is not None and not path.exists() else probe_version(url, location)
+    version = None if path is not None and not path.exists() else probe_version(url, location, read_only=read_only)
     if version is None:
+        if read_only:
+            raise LibraryError(f"{location} is an empty database in a read-only place; cannot create a library there")
         if not create:
             raise LibraryError(f"{location} is an empty database, not a partpick library")
         _create_schema(engine)
@@ -211,9 +231,19 @@ def prepare_database(url: URL, location: str, engine: Engine, *, create: bool) -
             f"library {location} was written by a newer partpick (schema {version}; this partpick "
             f"reads up to schema {models.SCHEMA_VERSION}); update partpick to open it"
         )
+    if version < models.SCHEMA_VERSION and read_only:
+        raise LibraryError(
+            f"library {location} is read-only and was written by an older partpick (schema {version}); "
+            f"it needs migrating to schema {models.SCHEMA_VERSION}: open a writable copy"
+        )
     if version < models.SCHEMA_VERSION:
-        backup = backup_sqlite(path, version) if path is not None else None
-        where = f"; backup of the old file at {backup}" if backup else ""
+        backup, made = backup_sqlite(path, version) if path is not None else (None, False)
+        if backup is None:
+            where = ""
+        elif made:
+            where = f"; backup of the old file at {backup}"
+        else:
+            where = f"; backup of the old file at {backup} (kept from an earlier attempt, not made again)"
         try:
             _migrate(engine, version)
         except LibraryError:

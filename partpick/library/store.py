@@ -15,7 +15,6 @@ import gc
 import hashlib
 import json
 import os
-import tempfile
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -31,11 +30,15 @@ from partpick.library.db import (
     make_engine,
     make_sessionmakers,
     one_line,
+    server_read_only,
+    sqlite_path,
+    sqlite_read_only,
     to_url,
 )
-from partpick.library.fields import FIELD_NAMES, MODEL_FIELDS, PART_FIELDS, part_problems
+from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, MODEL_FIELDS, PART_FIELDS, part_problems
 from partpick.library.migrate import prepare_database
 from partpick.library.models import Part, Policy, VfPoint
+from partpick.text import normalise_text
 
 __all__ = ["Library", "ImportSummary", "open_library", "prepare_part"]
 
@@ -46,6 +49,15 @@ _POLICY = Policy.__table__
 _ROW_COLUMNS = tuple(name for name in FIELD_NAMES if name != "vf_points")
 _READ_COLUMNS = _ROW_COLUMNS + ("fit_residual_mV",)
 _CHUNK = 1000
+_COLUMN_KINDS = {name: ("float" if name == "fit_residual_mV" else FIELDS_BY_NAME[name].type) for name in _READ_COLUMNS}
+
+
+def _finite_number(value) -> bool:
+    return value is None or (type(value) in (float, int) and value - value == 0)
+
+
+def _text_or_none(value) -> bool:
+    return value is None or type(value) is str
 
 
 def _first(row):
@@ -63,6 +75,8 @@ class ImportSummary:
     fitted: list[str] = field(default_factory=list)
     dry_run: bool = False
     cancelled: bool = False
+    # per updated part: (fields whose value changes, fields that are cleared)
+    changes: dict[str, tuple[list[str], list[str]]] = field(default_factory=dict)
 
     @property
     def written(self) -> bool:
@@ -77,6 +91,20 @@ class ImportSummary:
         if self.dry_run:
             return f"{self.source}: dry run, nothing written; would have {counts}{fitted}"
         return f"{self.source}: {counts}{fitted}"
+
+    def change_lines(self) -> list[str]:
+        """Per part, what the import changes (or would): added, or the fields changed and cleared."""
+        lines = [f"{number}: added" for number in self.added]
+        verb = ("would change", "would clear") if self.dry_run else ("changed", "cleared")
+        for number in self.updated:
+            changed, cleared = self.changes.get(number, ([], []))
+            words = []
+            if changed:
+                words.append(f"{verb[0]} {', '.join(changed)}")
+            if cleared:
+                words.append(f"{verb[1]} {', '.join(cleared)}")
+            lines.append(f"{number}: {'; '.join(words) if words else verb[0] + ' nothing'}")
+        return lines
 
 
 @contextlib.contextmanager
@@ -107,8 +135,8 @@ def _normalise(part: dict) -> dict:
         elif spec.type == "points":
             if isinstance(value, (list, tuple)):
                 value = [_point(pair) for pair in value]
-        elif value == "" and spec.type in ("text", "choice"):
-            value = None
+        elif spec.type in ("text", "choice") and isinstance(value, str):
+            value = normalise_text(value) if value else None
         elif spec.type == "float" and isinstance(value, int) and not isinstance(value, bool):
             value = float(value)
         record[name] = value
@@ -226,6 +254,17 @@ def _insert_many(connection, table, rows: list[dict]) -> None:
     connection.exec_driver_sql(compiled.string, parameters)
 
 
+def _differences(old: dict, new: dict) -> tuple[list[str], list[str]]:
+    """(fields given a different value, fields cleared) from ``old`` to ``new``."""
+    changed, cleared = [], []
+    for name in FIELD_NAMES:
+        before, after = old.get(name), new.get(name)
+        if before == after or (before in (None, []) and after in (None, [])):
+            continue
+        (cleared if after in (None, []) else changed).append(name)
+    return changed, cleared
+
+
 def _csv_view(part: dict) -> dict:
     """The part as the CSV sees it (for added / updated / unchanged)."""
     return {name: part[name] for name in FIELD_NAMES}
@@ -234,9 +273,12 @@ def _csv_view(part: dict) -> dict:
 class Library:
     """An open parts library. Use `open_library` to get one; close it when done."""
 
-    def __init__(self, location: str, engine, note: str | None):
+    def __init__(self, location: str, engine, note: str | None, *, path: Path | None = None,
+                 read_only: bool = False):
         self.location = location
         self.note = note
+        self.path = path  # the SQLite file, None for a server library
+        self.read_only = read_only  # opened read-only: every write is refused ("library is read-only")
         self._engine = engine
         self._Reading, self._Writing = make_sessionmakers(engine)
 
@@ -250,9 +292,14 @@ class Library:
     def close(self) -> None:
         self._engine.dispose()
 
+    def _refuse_read_only(self, action: str) -> None:
+        if self.read_only:
+            raise LibraryError(f"library {self.location} is read-only: cannot {action}")
+
     @contextlib.contextmanager
     def _unit_of_work(self, action: str):
         """One user action: one transaction holding the write lock, committed or rolled back whole."""
+        self._refuse_read_only(action)
         with library_errors(self.location, action):
             with self._Writing() as session, session.begin():
                 yield session
@@ -285,8 +332,50 @@ class Library:
         rows.sort(key=_first)
         return rows, points
 
-    @staticmethod
-    def _as_parts(rows, points) -> list[dict]:
+    def _check_stored(self, rows, points) -> None:
+        """LibraryError naming the part and field when stored content is damaged (SPEC §5).
+
+        A number column holding text (SQLite stores whatever it is given), an
+        infinite number, a text column holding bytes, a choice outside its
+        list, a VF point that is not a pair of numbers: one line, no traceback.
+        """
+        if not rows:
+            return
+        columns = list(zip(*rows))
+        for index, name in enumerate(_READ_COLUMNS):
+            kind = _COLUMN_KINDS[name]
+            values = columns[index]
+            if kind == "float":
+                kinds = set(map(type, values))
+                if kinds <= {float, type(None)} and all(v - v == 0.0 for v in values if v is not None):
+                    continue
+                ok = _finite_number
+            elif kind == "text":
+                if set(map(type, values)) <= {str, type(None)}:
+                    continue
+                ok = _text_or_none
+            else:  # choice
+                allowed = set(FIELDS_BY_NAME[name].choices) | {None}
+                if set(values) <= allowed:
+                    continue
+                ok = allowed.__contains__
+            for row in rows:
+                if not ok(row[index]):
+                    self._damaged(row[0], name, row[index])
+        numbers = {row[-1]: row[0] for row in rows}
+        for part_id, pairs in points.items():
+            for current, voltage in pairs:
+                if not (_finite_number(current) and _finite_number(voltage)):
+                    self._damaged(numbers.get(part_id, f"id {part_id}"), "vf_points", (current, voltage))
+
+    def _damaged(self, number, name, value):
+        shown = repr(value)
+        shown = shown if len(shown) <= 40 else shown[:37] + "..."
+        raise LibraryError(f"library {self.location} is damaged: part {number!r}, field {name} holds {shown} "
+                           "(not a valid value); correct or delete the part")
+
+    def _as_parts(self, rows, points) -> list[dict]:
+        self._check_stored(rows, points)
         names = _READ_COLUMNS
         parts = []
         for row in rows:
@@ -372,16 +461,25 @@ class Library:
         source,
         *,
         dry_run: bool = False,
+        replace: bool = False,
         progress: Callable[[int, int], None] | None = None,
         cancel: Callable[[], bool] | None = None,
     ) -> ImportSummary:
         """Import a parts CSV (SPEC §5) in one transaction: every row or none.
 
+        A row for a stored part updates it: the columns the file carries replace
+        the stored values (an empty cell clears one), the others are kept; the
+        merged part is validated whole, and new vf_points without a new Is, n, Rs
+        are fitted again. With ``replace`` a row replaces its stored part whole.
+
         Parameters
         ----------
         source : path or stream
         dry_run : bool
-            Validate and classify only; write nothing.
+            Validate and classify only; write nothing (``summary.changes`` says
+            per part which fields would change or be cleared).
+        replace : bool
+            Rows replace stored parts whole.
         progress : callable(done, total), optional
             Called as the import advances: ``done`` counts rows read, then rows
             checked (and fitted), then rows written; ``total`` is three times the rows.
@@ -407,37 +505,73 @@ class Library:
                 rows = rows_seen[0]
                 progress(stage * rows + done, 3 * rows)
 
+        if not dry_run:
+            self._refuse_read_only("import parts")
         try:
             with _bulk():
-                return self._import(source, dry_run, report, cancel)
+                return self._import(source, dry_run, replace, report, cancel)
         except ImportCancelled:
             return ImportSummary(source=str(getattr(source, "name", source)), dry_run=dry_run, cancelled=True)
 
-    def _import(self, source, dry_run: bool, report, cancel) -> ImportSummary:
+    def _import(self, source, dry_run: bool, replace: bool, report, cancel) -> ImportSummary:
         rows, problems, name = csvio.read_parts_csv(
             source, progress=lambda done, total: report(done, total, 0), cancel=cancel
         )
-        records, problems = self._check_rows(rows, problems, report, cancel)
-        if problems:
-            raise CsvInputError(name, sorted(problems, key=lambda p: (p.line or 0)))
-        summary = ImportSummary(source=name, dry_run=dry_run)
-        summary.fitted = [
-            row.part["part_number"] for row in rows
-            if row.part["vf_points"] and all(row.part[n] is None for n in MODEL_FIELDS)
-        ]
         if dry_run:
             with self._reading("read the parts") as connection:
-                self._classify(connection, records, summary)
-            return summary
+                return self._import_rows(connection, rows, problems, name, True, replace, report, cancel)
+        # Stored parts are read, merged and written in one write transaction, so that a
+        # concurrent edit cannot slip between the merge and the write.
         with self._unit_of_work(f"import {name}") as session:
-            connection = session.connection()
-            changed = self._classify(connection, records, summary)
-            self._write(connection, changed, summary, report, cancel)
+            summary = self._import_rows(session.connection(), rows, problems, name, False, replace, report, cancel)
         report(1, 1, 2)
         return summary
 
+    def _import_rows(self, connection, rows, problems, name, dry_run, replace, report, cancel) -> ImportSummary:
+        stored = {part["part_number"]: part for part in self._load(connection)}
+        fitting: set[str] = set()
+        parts = [self._merged(row, stored, replace, fitting) for row in rows]
+        records, problems = self._check_rows(rows, parts, problems, report, cancel)
+        if problems:
+            raise CsvInputError(name, sorted(problems, key=lambda p: (p.line or 0)))
+        summary = ImportSummary(source=name, dry_run=dry_run)
+        summary.fitted = [record["part_number"] for record in records if record["part_number"] in fitting]
+        changed = self._classify(stored, records, summary)
+        if not dry_run:
+            self._write(connection, changed, summary, report, cancel)
+        return summary
+
     @staticmethod
-    def _check_rows(rows, problems, report, cancel):
+    def _merged(row, stored: dict, replace: bool, fitting: set) -> dict:
+        """The part a CSV row stands for (SPEC §5): a new part, or a stored one updated by the row.
+
+        The row's columns replace the stored values (an empty cell clears), absent
+        columns keep theirs; with ``replace`` the row replaces the part whole. New
+        vf_points without a new Is, n, Rs clear the old model so that it is fitted again.
+        """
+        part = row.part
+        number = part.get("part_number")
+        old = stored.get(number) if isinstance(number, str) else None
+        if old is None or replace:
+            merged = part
+        else:
+            merged = {name: old[name] for name in FIELD_NAMES}
+            for name in row.columns:
+                merged[name] = part[name]
+            new_points = "vf_points" in row.columns and list(part["vf_points"]) != list(old["vf_points"])
+            new_model = any(name in row.columns and part[name] != old[name] for name in MODEL_FIELDS)
+            if new_points and not new_model and merged["vf_points"]:
+                for name in MODEL_FIELDS:
+                    merged[name] = None
+                merged["model_source"] = None
+            elif new_model and "model_source" not in row.columns:
+                merged["model_source"] = None  # decided again: entered, or fitted when the model was cleared
+        if merged["vf_points"] and all(merged[name] is None for name in MODEL_FIELDS) and isinstance(number, str):
+            fitting.add(number)
+        return merged
+
+    @staticmethod
+    def _check_rows(rows, parts, problems, report, cancel):
         bad_fields: dict[int, set[str]] = {}
         for problem in problems:
             bad_fields.setdefault(problem.line, set()).add(problem.column or "")
@@ -445,8 +579,8 @@ class Library:
         records = []
         first_line: dict[str, int] = {}
         total = len(rows)
-        for index, row in enumerate(rows, start=1):
-            record, found = prepare_part(row.part, skip_fields=bad_fields.get(row.line, ()))
+        for index, (row, part) in enumerate(zip(rows, parts), start=1):
+            record, found = prepare_part(part, skip_fields=bad_fields.get(row.line, ()))
             for column, message in found:
                 problems.append(CsvProblem(row.line, column, message))
             number = record.get("part_number")
@@ -466,8 +600,8 @@ class Library:
         report(total, total, 1)
         return records, problems
 
-    def _classify(self, connection, records: list[dict], summary: ImportSummary) -> list[dict]:
-        stored = {part["part_number"]: part for part in self._load(connection)}
+    @staticmethod
+    def _classify(stored: dict, records: list[dict], summary: ImportSummary) -> list[dict]:
         changed = []
         for record in records:
             number = record["part_number"]
@@ -480,6 +614,7 @@ class Library:
             else:
                 summary.updated.append(number)
                 changed.append(record)
+                summary.changes[number] = _differences(old, record)
         return changed
 
     @staticmethod
@@ -514,35 +649,58 @@ class Library:
             if cancel is not None and cancel():
                 raise ImportCancelled()  # rolls the transaction back
 
+    def export_csv_text(self) -> str:
+        """Every part as the CSV text of SPEC §5."""
+        return csvio.parts_csv_text(self.list_parts())
+
     def export_csv(self, target) -> None:
-        """Write every part as CSV (SPEC §5) to a path (replaced atomically) or a text stream."""
-        text = csvio.parts_csv_text(self.list_parts())
-        if not isinstance(target, (str, Path)):
+        """Write every part as CSV (SPEC §5) to a path or a text stream.
+
+        A path goes through `partpick.outputs` (refused when it is this library or
+        another database; written atomically; links followed; FIFOs and devices
+        written directly).
+
+        Raises
+        ------
+        InputError
+            The output is refused (exit 2).
+        OutputError
+            The write failed (exit 1); the old file is as it was.
+        """
+        from partpick.outputs import OutputTarget, prepare_output
+
+        if isinstance(target, (str, os.PathLike)):
+            target = prepare_output(target, library=self.path, option="export to")
+        text = self.export_csv_text()
+        if isinstance(target, OutputTarget):
+            target.write(text.encode("utf-8"))
+        else:
             target.write(text)
-            return
-        path = Path(target)
-        try:
-            handle, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent or ".")
-            with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
-                stream.write(text)
-            # mkstemp makes the file private; give it the mode of the file it replaces, or a plain one.
-            os.chmod(temporary, path.stat().st_mode & 0o777 if path.exists() else 0o644)
-            os.replace(temporary, path)
-        except OSError as error:
-            with contextlib.suppress(OSError, UnboundLocalError):
-                os.unlink(temporary)
-            raise InputError(f"cannot write {path}: {error.strerror or error}") from error
 
     # -- policies ---------------------------------------------------------------------
+    def _policy_body(self, name, body) -> dict:
+        """A stored policy's dict; LibraryError naming it when its stored body is damaged."""
+        try:
+            data = json.loads(body) if isinstance(body, (str, bytes)) else None
+        except (ValueError, RecursionError) as error:
+            reason = one_line(error)
+            data = None
+        else:
+            reason = "not a JSON object"
+        if not isinstance(data, dict):
+            raise LibraryError(f"library {self.location} is damaged: stored policy {name!r}, field body: "
+                               f"{reason}; import the policy again")
+        return data
+
     def list_policies(self) -> list[dict]:
         with self._reading("read the policies") as connection:
             rows = connection.execute(select(_POLICY.c.name, _POLICY.c.body)).all()
-        return [json.loads(body) for _, body in sorted(rows)]
+        return [self._policy_body(name, body) for name, body in sorted(rows, key=lambda r: str(r[0]))]
 
     def get_policy(self, name: str) -> dict | None:
         with self._reading(f"read policy {name}") as connection:
             body = connection.execute(select(_POLICY.c.body).where(_POLICY.c.name == name)).scalar()
-        return None if body is None else json.loads(body)
+        return None if body is None else self._policy_body(name, body)
 
     def save_policy(self, policy: dict) -> None:
         """Store a derating policy (its dict, with a ``name``), replacing one of the same name."""
@@ -610,14 +768,18 @@ def open_library(
         location = ensure_user_library()
     url = to_url(location)
     shown = url.render_as_string(hide_password=True) if "://" in str(location) else str(url.database)
+    path = sqlite_path(url)
+    read_only = path is not None and sqlite_read_only(path)
     try:
-        engine = make_engine(url, busy_timeout_s=busy_timeout_s)
+        engine = make_engine(url, busy_timeout_s=busy_timeout_s, read_only=read_only)
     except (exc.ArgumentError, exc.NoSuchModuleError, ImportError) as error:
         raise LibraryError(f"cannot open library {shown}: {one_line(error)}") from error
     try:
         with library_errors(shown, "open it"):
-            note = prepare_database(url, shown, engine, create=create)
+            note = prepare_database(url, shown, engine, create=create, read_only=read_only)
+            if path is None:
+                read_only = server_read_only(engine)
     except BaseException:
         engine.dispose()
         raise
-    return Library(shown, engine, note)
+    return Library(shown, engine, note, path=path, read_only=read_only)

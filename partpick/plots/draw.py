@@ -384,7 +384,8 @@ def redraw(plot_item, plot: str, curves: dict, previous: list | None = None, *, 
     whose axes are linked to another's)."""
     if plot == "iv":
         plot = "breakdown" if curves.get("role") == "zener_shunt" else "forward"
-    key, options = _PLOTS[plot]
+    # A role's own section (`Role.curve_plots`) draws with the default options.
+    key, options = _PLOTS.get(plot, (plot, {}))
     if key in ("forward", "breakdown"):
         options = dict(options, log_y=log_current)
     return redraw_section(plot_item, curves.get(key), previous, auto_range=auto_range, **options)

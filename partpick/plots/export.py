@@ -7,7 +7,6 @@ used here, so SVG is drawn by rendering the widget onto a QSvgGenerator.
 from __future__ import annotations
 
 import os
-from pathlib import Path
 
 __all__ = ["ensure_qapp", "export_png", "export_svg", "section_widget", "section_png"]
 
@@ -26,7 +25,9 @@ def ensure_qapp():
 
 def _write(data: bytes, path) -> bytes:
     if path is not None:
-        Path(path).write_bytes(data)
+        from partpick.outputs import write_output  # every output file goes through partpick.outputs
+
+        write_output(path, data)
     return data
 
 

@@ -274,4 +274,5 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
         lines += [""] + check_sheet_lines(subject)
     lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
                   "and measurements."]
+    lines += [f"CAUTION: {clean_text(c)}" for c in result.get("cautions") or []]
     return ("\n".join(lines) + "\n").encode("utf-8")

@@ -162,6 +162,16 @@ def curve_images(requirement, part_record: dict | None, candidate: dict | None) 
 
     data = curves_for(requirement, part_record, candidate)
     images = []
+    if data["role"] not in IMAGE_PLOTS:  # a role without its own list: every plot it declares
+        from partpick.checks.roles import ROLES
+
+        for section, title, options in ROLES[data["role"]].curve_plots:
+            if data.get(section) is not None:
+                draw = (lambda plot_item, curves, _s=section, _o=dict(options):
+                        plots.draw_section(plot_item, curves.get(_s), **_o))
+                images.append((section.replace("_", "-") + ("-log" if options.get("log_y") else ""), title,
+                               plots.section_png(draw, data)))
+        return images, list(data["notes"])
     for name, caption, draw_name, options in IMAGE_PLOTS.get(data["role"], ()):
         section = {"draw_forward": "forward", "draw_breakdown": "breakdown", "draw_zener_output": "zener_output",
                    "draw_junction_temperature": "junction_temperature", "draw_power": "power"}[draw_name]
@@ -354,6 +364,8 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
     ]
     out.append(_table(None, info))
     out.append('<p class="caution"><b>Caution.</b> ' + " ".join(e(c) for c in CAUTIONS) + "</p>")
+    for caution in result.get("cautions") or []:  # the role's own (e.g. mains)
+        out.append(f'<p class="caution"><b>Caution.</b> {e(caution)}</p>')
 
     out.append("<h2>Requirement</h2>")
     out.append(_table(["Key", "Value"], _requirement_rows(req)))
@@ -430,9 +442,12 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
             out.append(f'<p><img src="{e(image_src(name, png))}" width="620" alt="{e(caption)}"/><br/>'
                        f'<span class="small">{e(caption)}</span></p>')
 
+    if result.get("method"):
+        out.append("<h2>Method and assumptions</h2>" + "".join(f"<p>{e(m)}</p>" for m in result["method"]))
     out.append('<h2 style="page-break-before: always">Formulas and sources</h2>')
     out.append(_table(["What", "Formula", "Source"], [list(f) for f in FORMULAS], widths=[20, 40, 40]))
-    out.append("<h2>Cautions</h2><ul>" + "".join(f"<li>{e(c)}</li>" for c in CAUTIONS) + "</ul>")
+    out.append("<h2>Cautions</h2><ul>" + "".join(f"<li>{e(c)}</li>" for c in
+                                               tuple(CAUTIONS) + tuple(result.get("cautions") or ())) + "</ul>")
     out.append(f'<p class="small">Made by partpick {e(result.get("partpick_version", __version__))}.</p>')
     out.append("</body></html>")
     return "\n".join(out)

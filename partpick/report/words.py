@@ -70,6 +70,28 @@ RATING_OF_CHECK = {
     "zener_current_min": ("izk_A", "Izk", "A"),
 }
 
+
+
+def _merge_role_words() -> None:
+    """Each role's own words (`Role.check_labels`, `metric_labels`, `key_metrics`, `rating_of_check`)."""
+    global METRIC_ORDER
+    from partpick.checks.roles import ROLES
+
+    for role in ROLES.values():
+        ROLE_LABELS.setdefault(role.name, role.label)
+        for key, label in role.check_labels.items():
+            CHECK_LABELS.setdefault(key, label)
+        for key, label in role.metric_labels.items():
+            METRIC_LABELS.setdefault(key, label)
+        METRIC_ORDER += tuple(k for k in role.metric_labels if k not in METRIC_ORDER)
+        if role.key_metrics:
+            KEY_METRICS.setdefault(role.name, role.key_metrics)
+        for key, rating in role.rating_of_check.items():
+            RATING_OF_CHECK.setdefault(key, rating)
+
+
+_merge_role_words()
+
 _SUFFIX_UNITS = (("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"), ("_pct_per_K", "%/K"),
                  ("_ohm", "Ω"), ("_pct", "%"), ("_ms", "ms"), ("_eV", "eV"), ("_V", "V"),
                  ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"))
@@ -106,11 +128,24 @@ def clean_text(text) -> str:
     return _CONTROL.sub(" ", "" if text is None else str(text))
 
 
+_COMMON_CORNER_KEYS = {"supply_V", "load_A", "ambient_C", "state", "vz_end", "resistor_end"}
+
+
+def _corner_column(key: str, value) -> str:
+    if isinstance(value, (int, float)) and not isinstance(value, bool):
+        unit = "V rms" if key.endswith("_Vrms") else metric_unit(key)
+        return format_engineering(value, "V" if unit == "V rms" else unit) + (" rms" if unit == "V rms" else "")
+    return clean_text(f"{key.rsplit('_', 1)[0].replace('_', ' ')} {value}")
+
+
 def corner_text(corner: dict | None) -> str:
     """A check's corner in the app's words: '11.0 V · 1.00 A · −20 °C · steady · Vz high · R low'."""
     if not corner:
         return "—"
     text = corner_label(corner.get("supply_V"), corner.get("load_A"), corner.get("ambient_C"), corner.get("state"))
+    role_columns = [_corner_column(k, v) for k, v in corner.items() if k not in _COMMON_CORNER_KEYS]
+    if role_columns:  # a role's own corner columns (e.g. the AC voltage) lead
+        text = " · ".join(role_columns + [text])
     extra = []
     if corner.get("vz_end"):
         extra.append(f"Vz {corner['vz_end']}")

@@ -33,12 +33,12 @@ def _diode(number, is_A, package="SMA"):
 
 
 @pytest.fixture
-def library(tmp_path):
-    path = tmp_path / "lib.sqlite"
-    with store.open_library(path, create=True) as lib:
+def library(library_location):
+    # A SQLite file and, with a server (PARTPICK_TEST_POSTGRES_URL), a PostgreSQL library.
+    with store.open_library(library_location, create=True) as lib:
         for part in (_diode("CL-A", 1e-12), _diode("CL-B", 1e-10), _diode("CL-C", 1e-11, package="SMB")):
             lib.save_part(part)
-    return str(path)
+    return str(library_location)
 
 
 @pytest.fixture
@@ -59,7 +59,12 @@ def test_pass_is_exit_0_with_the_json_contract(library, req_file, capsysbinary):
     assert main(["check", req_file(), "--library", library, "--format", "json"]) == 0
     result = _json_out(capsysbinary)
     assert [c["part_number"] for c in result["candidates"]][0] == "CL-B"
-    assert result["library"]["location"].endswith("lib.sqlite") and len(result["library"]["content_hash"]) == 64
+    location = result["library"]["location"]
+    if "://" in library:  # a server library: its URL, the password hidden
+        assert location.startswith("postgresql") and ":partpick@" not in location
+    else:
+        assert location.endswith("lib.sqlite")
+    assert len(result["library"]["content_hash"]) == 64
 
 
 def test_fail_is_exit_3(library, req_file, capsysbinary):

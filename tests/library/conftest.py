@@ -67,8 +67,9 @@ def library_path(tmp_path):
 
 
 @pytest.fixture
-def library(library_path):
-    lib = open_library(library_path, create=True)
+def library(library_location):
+    """A new, empty library: a SQLite file (``library_path``) and, with a server, a PostgreSQL database."""
+    lib = open_library(library_location, create=True)
     yield lib
     lib.close()
 

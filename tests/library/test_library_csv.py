@@ -249,8 +249,12 @@ def test_update_summary_added_updated_unchanged(library, write_csv):
     assert (summary.added, summary.updated, summary.unchanged) == (["TST-3"], ["TST-2"], ["TST-1"])
     assert summary.text().endswith("added 1, updated 1, unchanged 1")
     assert library.get_part("TST-2")["vrrm_V"] == 600.0
-    # A row replaces the stored part whole: a column left out means "not known".
+    # A row updates the stored part: a column the file does not carry keeps its value (SPEC §5) ...
     library.import_csv(write_csv("part_number,kind,vrrm_V,if_avg_A,is_A,n,rs_ohm\nTST-3,signal,75,0.2,3e-9,1.8,0.6\n"))
+    assert library.get_part("TST-3")["price"] == 0.01
+    # ... and with replace the row replaces it whole: a column left out means "not known".
+    library.import_csv(write_csv("part_number,kind,vrrm_V,if_avg_A,is_A,n,rs_ohm\nTST-3,signal,75,0.2,3e-9,1.8,0.6\n"),
+                       replace=True)
     assert library.get_part("TST-3")["price"] is None
 
 
@@ -298,10 +302,12 @@ def test_random_parts_round_trip_exactly(tmp_path):
     from partpick.library.fields import PART_FIELDS
 
     rng = random.Random(20261201)
-    alphabet = ["a", "Z", "0", ",", '"', "'", "=", "+", "-", "@", "\t", "\n", "\r\n", ";", ":", "Ω", "µ", " "]
+    # Line breaks only in notes; tabs and other control characters are refused in text (SPEC §5).
+    alphabet = ["a", "Z", "0", ",", '"', "'", "=", "+", "-", "@", ";", ":", "Ω", "µ", " "]
 
-    def text(limit):
-        return "".join(rng.choice(alphabet) for _ in range(rng.randint(1, min(limit, 12)))).strip() or "x"
+    def text(limit, breaks=False):
+        letters = alphabet + ["\n", "\r\n"] if breaks else alphabet
+        return "".join(rng.choice(letters) for _ in range(rng.randint(1, min(limit, 12)))).strip() or "x"
 
     parts = []
     for index in range(200):
@@ -321,8 +327,15 @@ def test_random_parts_round_trip_exactly(tmp_path):
                     izk_A=None, zzk_ohm=None, pd_ref_C=25.0, if_ref_C=25.0, ir_t_C=None,
                     ir_hot_A=None, ir_hot_t_C=None, rth_ja_area_mm2=None, rth_ja_large_K_per_W=None,
                     rth_ja_large_area_mm2=None, ppp2_W=None)
+        # Values SPEC §5 orders (VRRM ≤ VRSM, VWM < VBR min ≤ VBR max, the parts of the thermal path
+        # below RthJA): the drawn values are put in that order rather than left to refusal.
+        for chain in (("vrrm_V", "vrsm_V"), ("vwm_V", "vbr_min_V", "vbr_max_V"),
+                      ("rth_jc_K_per_W", "rth_jl_K_per_W", "rth_ja_K_per_W")):
+            present = [name for name in chain if part.get(name) is not None]
+            for name, value in zip(present, sorted(part[name] for name in present)):
+                part[name] = value
         for name in ("manufacturer", "package", "datasheet", "notes"):
-            part[name] = text(64)
+            part[name] = text(64, breaks=name == "notes")
         parts.append(part)
     with open_library(tmp_path / "a.sqlite", create=True) as first:
         for part in parts:

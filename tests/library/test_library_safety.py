@@ -216,7 +216,8 @@ def test_older_schema_is_backed_up_then_migrated(library, library_path, rectifie
         assert migrated.note.startswith(f"migrated library from schema {old} to {old + 1}; backup of the old file at")
         assert migrated.get_part("TST-R1")["vrrm_V"] == 400.0
     assert applied == [old]
-    backup = library_path.with_name(f"{library_path.name}.schema{old}.backup")
+    backup = library_path.with_name(f"{library_path.name}.backup-v{old}")
+    assert f"backup of the old file at {backup}" in migrated.note
     assert _dump(backup) == old_dump  # the backup holds the old library, schema and rows
     connection = sqlite3.connect(library_path)
     assert connection.execute("SELECT version FROM schema_version").fetchone() == (old + 1,)

@@ -13,7 +13,8 @@ from plot_data import SCHOTTKY, SERIES_REQ, ZENER, ZENER_CANDIDATE, ZENER_REQ
 from scipy import constants
 from scipy.optimize import brentq
 
-from partpick.checks.curves import SUPPLY_SPAN, corner_label, curves_for, format_engineering
+from partpick.checks.curves import corner_label, curves_for, format_engineering
+from partpick.checks.roles.zener_shunt_curves import SUPPLY_SPAN
 from partpick.physics.zener import ZenerModel, solve_shunt
 
 K0 = constants.zero_Celsius

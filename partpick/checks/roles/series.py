@@ -54,6 +54,14 @@ class SeriesRole(Role):
     label = "Series diode"
     kinds = ("rectifier", "signal", "schottky", "fast_recovery")
     objective_metrics = {"drop": "forward_drop_V", "dissipation": "dissipation_W"}
+    curve_plots = (("forward", "I–V", {}), ("forward", "I–V (log)", {"log_y": True}),
+                   ("junction_temperature", "Junction temperature", {"legend": "bottom_right"}),
+                   ("power", "Power", {"legend": "top_right"}))
+
+    def curves(self, requirement, part, candidate, notes):
+        from partpick.checks.roles.series_curves import series_curves
+
+        return series_curves(requirement, part, candidate, notes)
 
     def evaluate(self, requirement, parts, limits) -> RoleResult:
         req = requirement

@@ -101,6 +101,16 @@ class ZenerShuntRole(Role):
     label = "Zener shunt regulator"
     kinds = ("zener",)
     objective_metrics = {"drop": "regulation_error_pct", "dissipation": "zener_power_W"}
+    curve_plots = (("breakdown", "I–V", {"legend": "bottom_right"}),
+                   ("breakdown", "I–V (log)", {"legend": "bottom_right", "log_y": True}),
+                   ("zener_output", "Output vs supply", {"legend": "bottom_right"}),
+                   ("junction_temperature", "Junction temperature", {"legend": "bottom_right"}),
+                   ("power", "Power", {"legend": "top_right"}))
+
+    def curves(self, requirement, part, candidate, notes):
+        from partpick.checks.roles.zener_shunt_curves import zener_shunt_curves
+
+        return zener_shunt_curves(requirement, part, candidate, notes)
     supports_yield = True
 
     def evaluate(self, requirement, parts, limits) -> RoleResult:
