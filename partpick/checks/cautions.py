@@ -24,5 +24,4 @@ ASSUMPTION_CAUTIONS = (
 
 ALL_CAUTIONS = GENERAL_CAUTIONS + ASSUMPTION_CAUTIONS
 
-SHORT_CAUTION = ("Estimates from datasheet data: verify on the datasheet, prototypes and measurements; "
-                 "local codes and licensed practice come first")
+SHORT_CAUTION = "Estimates from datasheet data: verify before relying on them (cautions)"

@@ -194,10 +194,14 @@ class MainWindow(QMainWindow):
         # SPEC §7 on the main window: one line in the status area, the full text on click.
         from partpick.checks.cautions import SHORT_CAUTION
 
-        self.caution_label = QLabel(f'⚠ <a href="cautions">{SHORT_CAUTION}</a>', self)
+        from PySide6.QtWidgets import QToolButton
+
+        self.caution_label = QToolButton(self)  # flat, in the status bar's own colours (light and dark)
+        self.caution_label.setText(f"⚠ {SHORT_CAUTION}")
+        self.caution_label.setAutoRaise(True)
         self.caution_label.setObjectName("caution_label")
-        self.caution_label.setToolTip("Click for the cautions in full")
-        self.caution_label.linkActivated.connect(lambda _link: self.run_command("help.cautions"))
+        self.caution_label.setToolTip("Click for the cautions in full (Help ▸ Cautions)")
+        self.caution_label.clicked.connect(lambda: self.run_command("help.cautions"))
         self.statusBar().addWidget(self.status_label, 1)
         self.statusBar().addPermanentWidget(self.caution_label)
         self.statusBar().addPermanentWidget(self.location_label)
@@ -377,7 +381,8 @@ class MainWindow(QMainWindow):
             area = screen.availableGeometry()
             width, height = min(width, area.width() - 16), min(height, area.height() - 48)
         self.resize(width, height)
-        side = max(240, min(350, width // 4)), max(260, min(430, width * 3 // 10))
+        # The centre (shortlist and curves) gets the most; the library panel is looked at now and then.
+        side = max(240, min(350, width * 2 // 9)), max(240, min(430, width // 5))
         self.resizeDocks([self.requirement_dock, self.library_dock], list(side), Qt.Orientation.Horizontal)
 
     def show_first_run(self) -> None:

@@ -20,7 +20,7 @@ _FAIL_BRUSH = QBrush(FAIL_COLOR)
 _RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
 _FIXED = ("Rank", "Part", "Kind", "Package", "Result", "First failing check")
 # The Zener shunt's chosen (or given) resistor and its power class, from the result's metrics (SPEC §6).
-_ZENER_FIXED = _FIXED + ("Resistor", "Resistor class")
+_ZENER_FIXED = ("Rank", "Part", "Resistor", "Resistor class", "Kind", "Package", "Result", "First failing check")
 _ZENER_METRICS = {"Resistor": ("series_resistor_ohm", "Ω"), "Resistor class": ("resistor_power_class_W", "W")}
 # The commands of a shortlist row's context menu (the window binds them with `bind_actions`).
 CONTEXT_COMMANDS = ("shortlist.check_sheet", "shortlist.compare", "shortlist.substitutes", "report.export")

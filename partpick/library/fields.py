@@ -145,7 +145,7 @@ PART_FIELDS: tuple[FieldSpec, ...] = (
     _f("rth_ja_K_per_W", "K/W", "RthJA", 0.0, 10e3, "Junction-to-ambient thermal resistance; with Tj max it gives Pd.",
        True),
     _f("is_A", "A", "Is", 0.0, 1e-2, "Saturation current of the forward model at 25 °C.", True),
-    _f("n", "", "n", 1.0, 4.0, "Ideality factor of the forward model (1 … 4, SPEC §5)."),
+    _f("n", "", "n", 0.5, 4.0, "Ideality factor of the forward model."),
     _f("rs_ohm", "Ω", "Rs", 0.0, 1e3, "Series resistance of the forward model at 25 °C."),
     _f("rs_temp_exponent", "", "Rs temperature exponent", -3.0, 5.0,
        "Rs(T) = Rs·(T/T0)^exponent (default 0: Rs constant)."),

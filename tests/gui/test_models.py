@@ -302,11 +302,11 @@ def test_part_editor_refuses_n_below_1_and_shows_range_errors_beside_a_parse_err
                            "is_A": 1e-9, "n": 1.5, "rs_ohm": 0.1, "tj_max_C": 150.0, "pd_W": 1.0})
     assert model.is_valid()
     model.set_text("n", "0.5")
-    assert not model.is_valid() and "1 ≤ value ≤ 4" in model.error("n")
+    assert not model.is_valid() and "outside 1 … 4" in model.error("n")
     model.set_text("if_avg_A", "1xx")  # does not parse
     model.set_text("vrrm_V", "-5")  # out of range
     assert "expected 'A'" in model.error("if_avg_A")
-    assert "out of range" in model.error("vrrm_V") and "1 ≤ value ≤ 4" in model.error("n")
+    assert "out of range" in model.error("vrrm_V") and "outside 1 … 4" in model.error("n")
     assert "vrrm_V" not in model.error("vrrm_V") and "VRRM [V]" in model.error("vrrm_V")
 
 

@@ -319,12 +319,12 @@ def test_shortlist_context_menu_offers_the_row_commands(qtbot, window):
 
 
 # -- cautions -----------------------------------------------------------------------------------------
-def test_cautions_are_on_the_main_window_and_shown_on_first_run(window):
+def test_cautions_are_on_the_main_window_and_shown_on_first_run(qtbot, window):
     from partpick.checks.cautions import ASSUMPTION_CAUTIONS
 
     label = window.caution_label
     assert label.isVisible() and "verify" in label.text()
-    label.linkActivated.emit("cautions")
+    qtbot.mouseClick(label, Qt.MouseButton.LeftButton)
     assert window.bench.prompt.cautions == [False]
     window.show_first_run()
     window.show_first_run()  # once per user

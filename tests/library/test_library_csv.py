@@ -183,7 +183,7 @@ def test_every_bad_row_is_reported_with_line_and_column(library, write_csv):
         "6 bad rows, nothing imported: line 3, column vrrm_V: '4.7kk'" in message
     assert "line 8, column part_number: part_number TST-1 already appears on line 2" in message
     assert "line 9: the row has 4 cells, the header has 8 columns" in message
-    assert "line 6, column n: part TST-4: n = 9 is out of range (allowed: 1 ≤ value ≤ 4)" in message
+    assert "line 6, column n: part TST-4: n = 9 is out of range (allowed: 0.5 ≤ value ≤ 4)" in message
     assert "\n" not in message  # one line on stderr
     assert library.list_parts() == []
 

@@ -74,8 +74,8 @@ def test_valid_parts_have_no_problems(rectifier, zener):
     [
         ("vrrm_V", 0.0, "0 < value ≤ 100000 V"),  # issue 3: VRRM > 0
         ("vrrm_V", -5.0, "0 < value ≤ 100000 V"),
-        ("n", 0.5, "1 ≤ value ≤ 4"),  # SPEC §5: n < 1 or n > 4 for an entered model is bad input
-        ("n", 4.5, "1 ≤ value ≤ 4"),
+        ("n", 0.4, "0.5 ≤ value ≤ 4"),  # issue 3: 0.5 ≤ n ≤ 4
+        ("n", 4.5, "0.5 ≤ value ≤ 4"),
         ("tj_max_C", 25.0, "25 < value ≤ 250 °C"),  # issue 3: Tj max above 25 °C
         ("rs_ohm", -0.1, "0 ≤ value ≤ 1000 Ω"),
         ("price", -1.0, "0 ≤ value ≤ 1e+06"),
