@@ -73,3 +73,43 @@ def test_saved_curves_image_uses_the_same_axes(window, tmp_path):
 def test_log_tick_text_inverse():
     for value in (1e-9, 2e-6, 0.001, 0.5, 1.0, 20.0, 1500.0):
         assert _label_value(log_tick_text(value)) == pytest.approx(value, rel=1e-3)
+
+
+def test_output_vs_supply_is_ranged_to_the_allowed_band(window):
+    """The band (target ± the allowed error) fills a good part of the plot, not a sliver of 0 … 20 V."""
+    load(window, ZENER_TOML)
+    window.curves.tabs.setCurrentWidget(window.curves.pages["zener_output"])
+    plot = window.curves.pages["zener_output"].widgets[0][0].getPlotItem()
+    band = window.curves.curve_sets[0]["zener_output"]["band"]
+    (_x0, _x1), (y0, y1) = plot.viewRange()
+    assert y0 <= band["low"] and y1 >= band["high"]
+    assert (band["high"] - band["low"]) / (y1 - y0) > 0.2  # the band is at least a fifth of the height
+    requirement = window.bench.result.result["requirement"]
+    target = requirement["zener"]["target_V"]
+    error = requirement["zener"]["max_regulation_error_pct"] / 100  # the band by hand: target·(1 ± error)
+    assert band["low"] == pytest.approx(target * (1 - error), rel=1e-6)
+    assert band["high"] == pytest.approx(target * (1 + error), rel=1e-6)
+
+
+def test_the_legend_sits_outside_every_plot(window, qtbot):
+    load(window, SERIES_TOML)
+    window.shortlist.select_rows([0, 1, 2, 3])
+    curves = window.curves
+    page = curves.current_page()
+    assert page.shown == 4
+    # No in-plot legend is shown (they covered the log plot at the first-run size) ...
+    for column in page.cells:
+        for plot_item in column:
+            assert plot_item.legend is None or not plot_item.legend.isVisible()
+    # ... the legend is a line under the plots, naming every curve of the tab once.
+    assert curves.legend.isVisible()
+    text = curves.legend.text()
+    for curve in curves.curve_sets[0]["forward"]["curves"]:
+        import html
+
+        assert html.escape(curve["label"]) in text
+    legend_top = curves.legend.mapTo(curves, curves.legend.rect().topLeft()).y()
+    tabs_bottom = curves.tabs.mapTo(curves, curves.tabs.rect().bottomLeft()).y()
+    assert legend_top >= tabs_bottom
+    curves.legend_button.click()  # collapsible
+    assert not curves.legend.isVisible()
