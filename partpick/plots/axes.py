@@ -57,6 +57,12 @@ class EngineeringAxis(pg.AxisItem):
         self._updateLabel()
 
 
+# Major and minor ticks only (pyqtgraph draws a third level by default): every tick level is also a
+# level of grid lines across the whole plot, and painting the axis pictures was the largest share
+# of a redraw — a third fewer lines per axis, the scale as readable.
+MAX_TICK_LEVEL = 1
+
+
 def install_axes(plot_item: pg.PlotItem) -> None:
     """Give ``plot_item`` `EngineeringAxis` axes (once; later calls keep them)."""
     replace = {}
@@ -64,6 +70,7 @@ def install_axes(plot_item: pg.PlotItem) -> None:
         axis = plot_item.getAxis(name)
         if not isinstance(axis, EngineeringAxis):
             replace[name] = EngineeringAxis(name, pen=axis.pen(), textPen=axis.textPen())
+            replace[name].setStyle(maxTickLevel=MAX_TICK_LEVEL)
     if replace:
         plot_item.setAxisItems(replace)
 

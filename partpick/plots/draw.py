@@ -178,7 +178,9 @@ def _update(plot_item: pg.PlotItem, entry: dict, old: dict, items: list) -> None
         if entry["label"] != old["label"]:
             items[0].label.setFormat(_line_label(entry["label"]))
         return
-    if entry["label"] != old["label"] and plot_item.legend is not None:
+    # A hidden legend (the window shows its own, outside the plots) is not kept up to date: every
+    # label is rich text, rebuilt at each edit for nothing.
+    if entry["label"] != old["label"] and plot_item.legend is not None and plot_item.legend.isVisible():
         label = plot_item.legend.getLabel(named)
         if label is not None:
             label.setText(html.escape(entry["label"]))

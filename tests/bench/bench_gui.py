@@ -115,6 +115,7 @@ def edit_to_redraw(library_path: Path, repeat: int, selected: int, role_toml: st
         totals.append((time.perf_counter() - start) * 1e3)
         checker.append(bench.result.elapsed_ms)
         app.processEvents()  # untimed: whatever else the event loop had
+    bench.requirement.modified = False  # typed into, never saved: closing would ask (a modal dialog)
     dispose_window(window)
     bench.close()
     return totals, checker
