@@ -78,7 +78,9 @@ class CompareDialog(QDialog):
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Close, self)
         buttons.rejected.connect(self.close)
         layout.addWidget(buttons)
-        self.resize(260 + 260 * len(part_numbers), 680)
+        from partpick.gui.widgets import resize_within_screen
+
+        resize_within_screen(self, 260 + 260 * len(part_numbers), 680)
 
 
 # Which way is better for each delta the checker reports (substitute minus reference): -1 lower is

@@ -117,4 +117,6 @@ class CheckSheetDialog(QDialog):
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Close, self)
         buttons.rejected.connect(self.close)
         layout.addWidget(buttons)
-        self.resize(980, 600)
+        from partpick.gui.widgets import resize_within_screen
+
+        resize_within_screen(self, 980, 600)

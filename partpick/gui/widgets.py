@@ -189,3 +189,15 @@ class ChoiceList(QWidget):
     @property
     def error(self) -> str:
         return self._error
+
+
+def resize_within_screen(widget: QWidget, width: int, height: int) -> None:
+    """Resize to ``width`` × ``height``, but never beyond the screen's available area (a 1366 × 768
+    laptop keeps its task bar; the dialog's own layout scrolls)."""
+    from PySide6.QtGui import QGuiApplication
+
+    screen = widget.screen() or QGuiApplication.primaryScreen()
+    if screen is not None:
+        area = screen.availableGeometry()
+        width, height = min(width, area.width() - 24), min(height, area.height() - 56)
+    widget.resize(width, height)

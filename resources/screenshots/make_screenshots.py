@@ -107,6 +107,7 @@ def main(out: Path, *, dark: bool = False, size: tuple[int, int] = (1366, 768), 
 
     window.shortlist.select_rows([0, 1, 2])
     compare = CompareDialog(bench, bench.result.selected, window)
+    compare.resize(min(compare.width(), size[0] - 24), min(680, size[1] - 56))
     compare.show()
     settle()
     shot(compare, "compare")
@@ -115,6 +116,7 @@ def main(out: Path, *, dark: bool = False, size: tuple[int, int] = (1366, 768), 
     part = next(p for p in bench.library.parts if p.get("vf_points"))
     editor = PartEditor(part, title=f"Edit {part['part_number']}", existing=bench.library.part_numbers(),
                         parent=window)
+    editor.resize(min(1180, size[0] - 24), min(760, size[1] - 56))  # as on a screen of `size`
     editor.show()
     settle()
     shot(editor, "part_editor")

@@ -173,8 +173,6 @@ def test_an_unexpected_error_in_a_command_is_a_dialog(window, monkeypatch):
     def boom(bench):
         raise ZeroDivisionError("division by zero")
 
-    monkeypatch.setattr(commands.COMMANDS["shortlist.compare"], "run", boom, raising=False) \
-        if False else None
     original = commands.COMMANDS["shortlist.compare"]
     monkeypatch.setitem(commands.COMMANDS, "shortlist.compare", original.__class__(
         original.id, original.title, original.menu, original.shortcuts, boom))
