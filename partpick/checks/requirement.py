@@ -589,6 +589,13 @@ def requirement_from_toml(text: str, source: str = "requirement") -> Requirement
         data = parse_toml(text, source)  # bounded: at most 32 levels of nesting
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{source}: not valid TOML: {exc}") from exc
+    from partpick.text import normalise_text, text_problem
+
+    if isinstance(data.get("name"), str):  # shown on signed reports: the text rules of SPEC §5
+        data["name"] = normalise_text(data["name"])
+        reason = text_problem(data["name"], printable_only=True)
+        if reason is not None:
+            raise InputError(f"{source}: name {reason} (not allowed in text)")
     return requirement_from_dict(data, source, text=text)
 
 
