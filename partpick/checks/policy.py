@@ -12,6 +12,7 @@ the limits of SPEC §4 as fractions of the ratings, written in per cent:
 ``tj_margin_K``               Tj ≤ Tj max − this [K]; the stricter of cap and margin applies
 ``resistor_power_pct``        resistor power ≤ this % of its class rating
 ``surge_pct``                 inrush I²t ≤ this % of the IFSM I²t rating
+``pulse_power_pct``           TVS pulse power ≤ this % of the moved, derated Ppp rating
 ============================  ==================================================
 
 A requirement's own keys override the policy (`resolve_limits`); every limit
@@ -49,9 +50,9 @@ __all__ = [
     "HIGH_RELIABILITY_CAUTION",
 ]
 
-GROUPS = ("pn", "schottky", "zener")
+GROUPS = ("pn", "schottky", "zener", "tvs")
 GROUP_LABELS = {"pn": "pn rectifier, signal and fast-recovery diodes", "schottky": "Schottky diodes",
-                "zener": "Zener diodes"}
+                "zener": "Zener diodes", "tvs": "transient-voltage suppressors (TVS)"}
 NO_POLICY_NOTE = "no derating policy: ratings only"
 HIGH_RELIABILITY_CAUTION = (
     "in line with MIL-STD-975M appendix A as transcribed (a cancelled public standard; verify "
@@ -66,6 +67,7 @@ LIMIT_DESCRIPTIONS = {
     "tj_margin_K": "junction temperature margin below Tj max [K]",
     "resistor_power_pct": "resistor power, % of its class rating",
     "surge_pct": "inrush I²t, % of the IFSM I²t rating",
+    "pulse_power_pct": "TVS pulse power, % of the Ppp rating moved to the waveform and derated",
 }
 _NAME = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.\- ]{0,63}$")
 
@@ -81,6 +83,7 @@ class GroupLimits:
     tj_margin_K: float = 0.0
     resistor_power_pct: float = 100.0
     surge_pct: float = 100.0
+    pulse_power_pct: float = 100.0
 
     def to_dict(self) -> dict:
         return {f.name: getattr(self, f.name) for f in fields(self)}
@@ -235,10 +238,11 @@ def _builtins() -> dict[str, Policy]:
         "commercial",
         "partpick's commercial derating: reverse voltage ≤ 80 % of VRRM (Schottky 75 %), forward current "
         "≤ 80 % of derated IF(AV), Tj ≤ min(125 °C, Tj max − 25 K), Zener power ≤ 60 % of Pallow, "
-        "resistor power ≤ 60 % of its class rating.",
+        "resistor power ≤ 60 % of its class rating, TVS pulse power ≤ 80 % of its rating.",
         {"pn": commercial_pn,
          "schottky": GroupLimits(**{**commercial_pn.to_dict(), "reverse_pct": 75.0}),
-         "zener": GroupLimits(**{**commercial_pn.to_dict(), "power_pct": 60.0})},
+         "zener": GroupLimits(**{**commercial_pn.to_dict(), "power_pct": 60.0}),
+         "tvs": GroupLimits(**{**commercial_pn.to_dict(), "pulse_power_pct": 80.0})},
         builtin=True,
     )
     # MIL-STD-975M appendix A as transcribed in REFERENCES.md (cancelled 1998):
@@ -248,9 +252,11 @@ def _builtins() -> dict[str, Policy]:
     high_reliability = Policy(
         "high_reliability",
         "Reverse voltage ≤ 70 % of VRRM, forward current ≤ 50 %, surge ≤ 50 %, Tj ≤ 125 °C; Zener power "
-        "≤ 50 %, Tj ≤ 125 °C — " + HIGH_RELIABILITY_CAUTION,
+        "≤ 50 %, Tj ≤ 125 °C; TVS pulse power ≤ 50 % — " + HIGH_RELIABILITY_CAUTION,
         {"pn": hirel_diode, "schottky": hirel_diode,
-         "zener": GroupLimits(power_pct=50.0, tj_cap_C=125.0)},
+         "zener": GroupLimits(power_pct=50.0, tj_cap_C=125.0),
+         # transient suppressors: power ≤ 50 % (the same transcribed table), on the pulse rating
+         "tvs": GroupLimits(**{**hirel_diode.to_dict(), "pulse_power_pct": 50.0})},
         builtin=True,
     )
     return {p.name: p for p in (ratings_only, commercial, high_reliability)}

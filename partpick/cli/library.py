@@ -78,6 +78,8 @@ def _new(args) -> int:
     if "://" not in args.path and Path(args.path).exists():
         raise InputError(f"library new: {args.path} already exists (choose a new file name)")
     with open_library(args.path, create=True) as library:
+        if library.note != "created a new library":  # a server database that already holds a library
+            raise InputError(f"library new: {library.location} already exists: it holds a library (choose an empty database)")
         write_stdout(f"created library {library.location}\n")
     return 0
 

@@ -517,6 +517,9 @@ def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
     """
     if not bench.has_library("Import CSV"):
         return None
+    if bench.read_only:  # e.g. a CSV dropped onto a window showing a read-only library
+        bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: the library is read-only.")
+        return None
     library = bench.library.library
 
     def work(progress, cancel):
@@ -543,10 +546,15 @@ def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
 
 def _problem_lines(exc: InputError) -> list[str]:
     """Every bad row of a refused CSV, one line each (the store's CsvInputError lists them)."""
+    from partpick.inputs import MAX_PROBLEMS_LISTED
+
     problems = getattr(exc, "problems", None)
     if problems:
         source = getattr(exc, "source", "")
-        return [p.text(source) if hasattr(p, "text") else str(p) for p in problems]
+        lines = [p.text(source) if hasattr(p, "text") else str(p) for p in problems[:MAX_PROBLEMS_LISTED]]
+        if len(problems) > MAX_PROBLEMS_LISTED:
+            lines.append(f"and {len(problems) - MAX_PROBLEMS_LISTED} more")
+        return lines
     return [str(exc)]
 
 

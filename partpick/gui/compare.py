@@ -14,9 +14,11 @@ from partpick.gui.widgets import format_value, humanise
 __all__ = ["CompareRow", "compare_rows", "unit_of_key", "RATING_KEYS"]
 
 RATING_KEYS = ("kind", "package", "manufacturer", "lifecycle", "price", "vrrm_V", "if_avg_A", "ifsm_A", "pd_W",
-               "tj_max_C", "rth_ja_K_per_W", "vz_V", "vz_tol_pct")
+               "tj_max_C", "rth_ja_K_per_W", "vz_V", "vz_tol_pct", "ifrm_A", "trr_s", "vwm_V", "vbr_min_V",
+               "vbr_max_V", "vc_V", "ipp_A", "ppp_W")
 _SUFFIX_UNITS = (("_mV_per_V", "mV/V"), ("_mV_per_mA", "mV/mA"), ("_K_per_W", "K/W"), ("_pct", "%"),
-                 ("_ohm", "Ω"), ("_V", "V"), ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"))
+                 ("_ohm", "Ω"), ("_V", "V"), ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"),
+                 ("_J", "J"), ("_A2s", "A²s"), ("_s", "s"))
 
 
 def unit_of_key(key: str) -> str:

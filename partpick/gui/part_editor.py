@@ -35,6 +35,8 @@ EDITOR_GROUPS = (
     ("Identity", "part_number"),
     ("Ratings", "vrrm_V"),
     ("Forward model", "is_A"),
+    ("Thermal path, pulses, recovery", "pd_ref_point"),
+    ("TVS", "vwm_V"),
     ("Forward voltage", "vf_max_V"),
     ("Reverse leakage", "ir_A"),
     ("Zener", "vz_V"),

@@ -24,6 +24,9 @@ _ZENER_FIXED = ("Rank", "Part", "Resistor", "Resistor class", "Kind", "Package",
 _ZENER_METRICS = {"Resistor": ("series_resistor_ohm", "Ω"), "Resistor class": ("resistor_power_class_W", "W")}
 # The commands of a shortlist row's context menu (the window binds them with `bind_actions`).
 CONTEXT_COMMANDS = ("shortlist.check_sheet", "shortlist.compare", "shortlist.substitutes", "report.export")
+# Optional columns: metric key → (header, unit, tooltip).
+_EXTRA_COLUMNS = {"max_ambient_C": ("Max ambient", "°C", "The highest ambient max at which every check passes "
+                                                          "(operating limit; the first 20 candidates)")}
 
 
 def check_cell_text(check: dict) -> str:
@@ -65,6 +68,7 @@ class ShortlistTableModel(QAbstractTableModel):
         self._texts: dict = {}
         self._fixed: tuple[str, ...] = _FIXED
         self._sort: tuple[str, Qt.SortOrder] = ("Rank", Qt.SortOrder.AscendingOrder)
+        self._extra: tuple[str, ...] = ()  # optional metric columns after the fixed ones (`set_extra_columns`)
         model.changed.connect(self.refresh)
         self.refresh()
 
@@ -97,17 +101,23 @@ class ShortlistTableModel(QAbstractTableModel):
         self.endResetModel()
 
     def _column_name(self, column: int) -> str:
-        return self._fixed[column] if column < len(self._fixed) else self._checks[column - len(self._fixed)]
+        if column < len(self._fixed):
+            return self._fixed[column]
+        if column < self._first_check:
+            return self._extra[column - len(self._fixed)]
+        return self._checks[column - self._first_check]
 
     def sort_column(self) -> int:
         name = self._sort[0]
         if name in self._fixed:
             return self._fixed.index(name)
-        return len(self._fixed) + self._checks.index(name) if name in self._checks else 0
+        if name in self._extra:
+            return len(self._fixed) + self._extra.index(name)
+        return self._first_check + self._checks.index(name) if name in self._checks else 0
 
     def _apply_sort(self) -> None:
         name, order = self._sort
-        if name not in self._fixed and name not in self._checks:
+        if name not in self._fixed and name not in self._checks and name not in self._extra:
             name, order = "Rank", Qt.SortOrder.AscendingOrder
         missing = float("inf") if order == Qt.SortOrder.AscendingOrder else float("-inf")
 
@@ -122,8 +132,9 @@ class ShortlistTableModel(QAbstractTableModel):
                 return (len(candidate["failed_checks"]), candidate["rank"])
             if name == "First failing check":
                 return ((candidate["failed_checks"] or [""])[0], candidate["rank"])
-            if name in _ZENER_METRICS:
-                value = (candidate.get("metrics") or {}).get(_ZENER_METRICS[name][0])
+            if name in _ZENER_METRICS or name in self._extra:
+                key_ = _ZENER_METRICS[name][0] if name in _ZENER_METRICS else name
+                value = (candidate.get("metrics") or {}).get(key_)
                 return (missing if value is None else value, candidate["rank"])
             check = next((c for c in candidate["checks"] if c["name"] == name), None)
             margin = None if check is None else check.get("margin_pct")
@@ -132,6 +143,36 @@ class ShortlistTableModel(QAbstractTableModel):
         self._candidates.sort(key=key, reverse=order == Qt.SortOrder.DescendingOrder)
         self._by_name = [{c["name"]: c for c in candidate["checks"]} for candidate in self._candidates]
         self._texts = {}
+
+    @property
+    def _first_check(self) -> int:
+        return len(self._fixed) + len(self._extra)
+
+    def set_extra_columns(self, keys) -> None:
+        """Show optional metric columns (`_EXTRA_COLUMNS`, e.g. ``max_ambient_C``) after the fixed ones."""
+        self.beginResetModel()
+        self._extra = tuple(k for k in keys if k in _EXTRA_COLUMNS)
+        self._texts = {}
+        self.endResetModel()
+
+    def refresh_extra(self) -> None:
+        """The optional columns' values arrived later than the result (operating limits)."""
+        if self._extra and self._candidates:
+            self.dataChanged.emit(self.index(0, len(self._fixed)), self.index(len(self._candidates) - 1,
+                                                                         self._first_check - 1))
+
+    def _extra_data(self, candidate: dict, key: str, role):
+        if role == Qt.ItemDataRole.DisplayRole:
+            value = (candidate.get("metrics") or {}).get(key)
+            if value is None:
+                return "…" if (candidate.get("operating_limits") or {}).get("summary") is None else "—"
+            return format_value(value, _EXTRA_COLUMNS[key][1])
+        if role == Qt.ItemDataRole.TextAlignmentRole:
+            return _RIGHT
+        if role == Qt.ItemDataRole.ToolTipRole:
+            block = candidate.get("operating_limits") or {}
+            return block.get("summary") or block.get("reason") or "not computed yet"
+        return None
 
     @property
     def check_names(self) -> list[str]:
@@ -150,16 +191,20 @@ class ShortlistTableModel(QAbstractTableModel):
         return 0 if parent.isValid() else len(self._candidates)
 
     def columnCount(self, parent=_ROOT) -> int:  # noqa: N802
-        return 0 if parent.isValid() else len(self._fixed) + len(self._checks)
+        return 0 if parent.isValid() else self._first_check + len(self._checks)
 
     def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):  # noqa: N802
         if orientation != Qt.Orientation.Horizontal:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
             fixed = self._fixed
-            return fixed[section] if section < len(fixed) else humanise(self._checks[section - len(fixed)])
-        if role == Qt.ItemDataRole.ToolTipRole and section >= len(self._fixed):
-            return (f"Check {self._checks[section - len(self._fixed)]}: worst-corner value · margin (% of the "
+            if len(fixed) <= section < self._first_check:
+                return _EXTRA_COLUMNS[self._extra[section - len(fixed)]][0]
+            return fixed[section] if section < len(fixed) else humanise(self._checks[section - self._first_check])
+        if role == Qt.ItemDataRole.ToolTipRole and len(self._fixed) <= section < self._first_check:
+            return _EXTRA_COLUMNS[self._extra[section - len(self._fixed)]][2]
+        if role == Qt.ItemDataRole.ToolTipRole and section >= self._first_check:
+            return (f"Check {self._checks[section - self._first_check]}: worst-corner value · margin (% of the "
                     "limit); click to sort by the margin")
         if role == Qt.ItemDataRole.ToolTipRole and section < len(self._fixed) and self._fixed[section] in _ZENER_METRICS:
             return {"Resistor": "The series resistor chosen from the E-series (or the fixed one given)",
@@ -173,7 +218,9 @@ class ShortlistTableModel(QAbstractTableModel):
         column = index.column()
         if column < len(self._fixed):
             return self._fixed_data(candidate, column, role)
-        check = self._by_name[index.row()].get(self._checks[column - len(self._fixed)])
+        if column < self._first_check:
+            return self._extra_data(candidate, self._extra[column - len(self._fixed)], role)
+        check = self._by_name[index.row()].get(self._checks[column - self._first_check])
         if check is None:
             return "n/a" if role == Qt.ItemDataRole.DisplayRole else None
         if role == Qt.ItemDataRole.DisplayRole:

@@ -19,9 +19,10 @@ from collections.abc import Callable, Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from sqlalchemy import delete, exc, insert, select
+from sqlalchemy import delete, exc, insert, or_, select
 
 from partpick.errors import InputError, LibraryError
+from partpick.inputs import bounded_list
 from partpick.library import csvio
 from partpick.library.csvio import CsvInputError, CsvProblem, ImportCancelled
 from partpick.library.db import (
@@ -38,7 +39,7 @@ from partpick.library.db import (
 from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, MODEL_FIELDS, PART_FIELDS, part_problems
 from partpick.library.migrate import prepare_database
 from partpick.library.models import Part, Policy, VfPoint
-from partpick.text import normalise_text
+from partpick.text import normalise_text, text_problem
 
 __all__ = ["Library", "ImportSummary", "open_library", "prepare_part"]
 
@@ -332,33 +333,44 @@ class Library:
         rows.sort(key=_first)
         return rows, points
 
-    def _check_stored(self, rows, points) -> None:
+    def _check_stored(self, connection, rows, points, where=None) -> None:
         """LibraryError naming the part and field when stored content is damaged (SPEC §5).
 
         A number column holding text (SQLite stores whatever it is given), an
-        infinite number, a text column holding bytes, a choice outside its
-        list, a VF point that is not a pair of numbers: one line, no traceback.
+        infinite number, a choice outside its list (written past the CHECK
+        constraints), a VF point that is not a pair of numbers: one line, no
+        traceback. This runs on every load, so the database screens the columns
+        in one query (text and blobs sort above every number in SQLite, infinity
+        and NaN above every finite number in PostgreSQL); only a suspect library
+        is examined value by value.
         """
         if not rows:
             return
-        columns = list(zip(*rows))
+        big = 1.0e308
+        suspect = []
+        for name in _READ_COLUMNS:
+            column = _PART.c[name]
+            if _COLUMN_KINDS[name] == "float":
+                suspect += [column > big, column < -big]
+            elif _COLUMN_KINDS[name] == "choice":
+                suspect.append(column.not_in(FIELDS_BY_NAME[name].choices))
+        query = select(_PART.c.id).where(or_(*suspect)).limit(1)
+        points_query = select(_POINT.c.id).where(or_(
+            _POINT.c.current_A > big, _POINT.c.current_A < -big, _POINT.c.voltage_V > big, _POINT.c.voltage_V < -big,
+        )).limit(1)
+        if where is not None:
+            query = query.where(where)
+            points_query = points_query.join(_PART, _PART.c.id == _POINT.c.part_id).where(where)
+        if connection.execute(query).first() is None and connection.execute(points_query).first() is None:
+            return
         for index, name in enumerate(_READ_COLUMNS):
             kind = _COLUMN_KINDS[name]
-            values = columns[index]
             if kind == "float":
-                kinds = set(map(type, values))
-                if kinds <= {float, type(None)} and all(v - v == 0.0 for v in values if v is not None):
-                    continue
                 ok = _finite_number
-            elif kind == "text":
-                if set(map(type, values)) <= {str, type(None)}:
-                    continue
+            elif kind == "choice":
+                ok = (set(FIELDS_BY_NAME[name].choices) | {None}).__contains__
+            else:
                 ok = _text_or_none
-            else:  # choice
-                allowed = set(FIELDS_BY_NAME[name].choices) | {None}
-                if set(values) <= allowed:
-                    continue
-                ok = allowed.__contains__
             for row in rows:
                 if not ok(row[index]):
                     self._damaged(row[0], name, row[index])
@@ -374,8 +386,8 @@ class Library:
         raise LibraryError(f"library {self.location} is damaged: part {number!r}, field {name} holds {shown} "
                            "(not a valid value); correct or delete the part")
 
-    def _as_parts(self, rows, points) -> list[dict]:
-        self._check_stored(rows, points)
+    @staticmethod
+    def _as_parts(rows, points) -> list[dict]:
         names = _READ_COLUMNS
         parts = []
         for row in rows:
@@ -386,7 +398,9 @@ class Library:
         return parts
 
     def _load(self, connection, where=None) -> list[dict]:
-        return self._as_parts(*self._fetch(connection, where))
+        rows, points = self._fetch(connection, where)
+        self._check_stored(connection, rows, points, where)
+        return self._as_parts(rows, points)
 
     def list_parts(self) -> list[dict]:
         """Every part as a dict with the CSV's keys (plus ``fit_residual_mV``), sorted by part number."""
@@ -431,7 +445,7 @@ class Library:
         """
         record, problems = prepare_part(part)
         if problems:
-            raise InputError("; ".join(message for _, message in problems))
+            raise InputError(bounded_list([message for _, message in problems]))
         number = record["part_number"]
         with self._unit_of_work(f"save part {number}") as session:
             taken = session.scalar(select(Part).where(Part.part_number == number))
@@ -707,6 +721,11 @@ class Library:
         name = policy.get("name") if isinstance(policy, dict) else None
         if not isinstance(name, str) or not name.strip() or len(name) > 64 or name != name.strip():
             raise InputError(f"policy name {name!r} is not valid (1 to 64 characters, no surrounding spaces)")
+        for key, value, breaks in (("name", name, False), ("description", policy.get("description"), True)):
+            if isinstance(value, str):
+                reason = text_problem(value, line_breaks=breaks, printable_only=not breaks)
+                if reason is not None:
+                    raise InputError(f"policy {name!r}: {key} {reason} (not allowed in text)")
         try:
             body = json.dumps(policy, sort_keys=True, allow_nan=False, ensure_ascii=False)
         except (TypeError, ValueError) as error:

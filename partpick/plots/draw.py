@@ -379,15 +379,16 @@ _PLOTS = {
 
 
 def redraw(plot_item, plot: str, curves: dict, previous: list | None = None, *, log_current: bool = False,
-           auto_range: bool = True) -> DrawnItems:
+           auto_range: bool = True, **section_options) -> DrawnItems:
     """Redraw one of the plots (``"forward"``, ``"breakdown"``, ``"iv"`` — the role's I–V —,
     ``"zener_output"``, ``"junction_temperature"``, ``"power"``) from new curve data, updating
     ``previous`` in place where it can (see `redraw_section`; ``auto_range=False`` for a plot
     whose axes are linked to another's)."""
     if plot == "iv":
         plot = "breakdown" if curves.get("role") == "zener_shunt" else "forward"
-    # A role's own section (`Role.curve_plots`) draws with the default options.
     key, options = _PLOTS.get(plot, (plot, {}))
+    # The drawing options a role gives with its plot (`Role.curve_plots`: legend, log_x, log_y).
+    options = dict(options, **section_options)
     if key in ("forward", "breakdown"):
         options = dict(options, log_y=log_current)
     return redraw_section(plot_item, curves.get(key), previous, auto_range=auto_range, **options)

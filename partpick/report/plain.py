@@ -232,6 +232,25 @@ def _aligned(header: list[str], rows: list[list[str]], numeric=frozenset()) -> l
     return [fmt(header), "  ".join("-" * w for w in widths)] + [fmt(r) for r in rows]
 
 
+def limits_lines(candidates: list[dict]) -> list[str]:
+    """The operating limits and the largest sensitivity of each candidate that has them (SPEC §3a)."""
+    out = []
+    for c in candidates:
+        block = c.get("operating_limits") or {}
+        if block.get("summary") is None:
+            continue
+        line = f"  {clean_text(c.get('part_number'))}: {clean_text(block['summary'])}"
+        top = (c.get("sensitivity") or [])[:2]
+        if top:
+            line += "; worst case set by " + ", ".join(
+                f"{clean_text(x['input'])} ({x['step']}: {x['margin_change_pct']:+.2g} % points)".replace("-", "−")
+                for x in top)
+        out.append(line)
+    if out:
+        out = ["", "Operating limits (each alone) and what sets the worst case:"] + out
+    return out
+
+
 def render_table(result: dict, parts_by_number: dict | None = None, *, part: str | None = None) -> bytes:
     """The ranked shortlist as an aligned text table for a terminal."""
     req = result.get("requirement") or {}
@@ -264,8 +283,9 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
         if deltas:
             lines += ["", "Changes against the reference part:"]
             for number, delta in deltas:
-                items = [f"{k} {delta_text(v, k)}" for k, v in delta.items()]
+                items = [f"{k} {delta_text(v, k)}" for k, v in delta.items() if v is not None]
                 lines.append(f"  {clean_text(number)}: " + ", ".join(items))
+        lines += limits_lines(result.get("candidates", []))
     else:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
     subject = next((c for c in result.get("candidates", []) if c.get("part_number") == part), None) \

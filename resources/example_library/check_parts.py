@@ -39,7 +39,8 @@ REQ_DIR = HERE.parent / "requirements"
 T0 = 298.15
 K_Q = constants.k / constants.e
 TEXT = {"part_number", "kind", "manufacturer", "package", "datasheet", "model_source",
-        "lifecycle", "notes"}
+        "lifecycle", "notes", "ppp_waveform", "ppp2_waveform", "bidirectional", "junction",
+        "pd_ref_point", "if_ref_point"}
 failures: list[str] = []
 
 
@@ -215,13 +216,21 @@ def pallow(p, ta):
 def series_precheck(req, p):
     fails = []
     rth = req.get("rth_ja_K_per_W") or rth_of(p)
+    thermal = req.get("thermal") or {}
+    if thermal.get("mount") == "heatsink":  # RthJC + RthCS + RthSA
+        if p.get("rth_jc_K_per_W") is None:
+            return ["data_missing"]
+        rth = p["rth_jc_K_per_W"] + thermal.get("rth_cs_K_per_W", 1.0) + thermal["rth_sa_K_per_W"]
     group = "schottky" if p["kind"] == "schottky" else "pn"
     drops, outs, tjs = [], [], []
     for vs in (req["supply_min_V"], req["supply_max_V"]):
         for i in (req["load_min_A"], req["load_max_A"]):
             for ta in (req["ambient_min_C"], req["ambient_max_C"]):
                 cold = vf(p, i, ta)
-                tj = brentq(lambda t: t - ta - vf(p, i, t) * i * rth, ta - 1, ta + 2000)
+                try:
+                    tj = brentq(lambda t: t - ta - vf(p, i, t) * i * rth, ta - 1, ta + 2000)
+                except ValueError:  # no self-heated solution: forward runaway
+                    return fails + ["forward runaway"]
                 hot = vf(p, i, tj)
                 drops += [cold, hot]
                 outs += [vs - cold, vs - hot]
@@ -341,11 +350,16 @@ def requirement_prechecks(parts):
         req = tomllib.loads(path.read_text(encoding="utf-8"))
         allowed = set(req.get("lifecycle") or ["active", "nrnd", "obsolete"])
         kinds = set(req.get("kinds") or [])
+        if req["role"] not in ("series", "zener_shunt"):
+            print(f"  {path.name}: role {req['role']} is not pre-checked here (see `partpick check`)")
+            continue
         if req["role"] == "series":
-            cands = [p for p in parts if p["kind"] != "zener"]
+            cands = [p for p in parts if p["kind"] in ("rectifier", "signal", "schottky", "fast_recovery")]
         else:
             cands = [p for p in parts if p["kind"] == "zener"]
         cands = [p for p in cands if p["lifecycle"] in allowed and (not kinds or p["kind"] in kinds)]
+        if req.get("packages"):
+            cands = [p for p in cands if p["package"] in req["packages"]]
         passing, failing = [], Counter()
         notes = []
         for p in cands:

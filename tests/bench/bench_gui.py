@@ -74,7 +74,8 @@ def launch_time(library: Path) -> float:
     raise RuntimeError(f"no start-up timing from the app (exit {done.returncode}): {done.stderr[-2000:]}")
 
 
-def edit_to_redraw(library_path: Path, repeat: int, selected: int, role_toml: str) -> tuple[list, list]:
+def edit_to_redraw(library_path: Path, repeat: int, selected: int, role_toml: str,
+                   field_key: str = "supply_max_V") -> tuple[list, list]:
     """Milliseconds from a settled edit to shortlist and curves repainted, and the checker's share."""
     from PySide6.QtCore import QSettings
     from PySide6.QtTest import QTest
@@ -95,8 +96,8 @@ def edit_to_redraw(library_path: Path, repeat: int, selected: int, role_toml: st
     _wait_for_result(app, window)
     window.shortlist.select_rows(range(selected))
     app.processEvents()
-    field = window.requirement_view.editor("supply_max_V").edit
-    base = bench.requirement.value("supply_max_V")
+    field = window.requirement_view.editor(field_key).edit
+    base = bench.requirement.value(field_key)
     totals, checker = [], []
     for i in range(repeat):
         field.setFocus()
@@ -205,7 +206,10 @@ def main(argv=None) -> int:
     parser.add_argument("--repeat", type=int, default=15)
     parser.add_argument("--only", choices=("all", "redraw", "import", "launch"), default="all",
                         help="run one part of the benchmark")
+    parser.add_argument("--roles", default="series,zener,coil,surge",
+                        help="which example requirements to edit (comma-separated)")
     args = parser.parse_args(argv)
+    wanted = set(args.roles.split(","))
     work = Path(tempfile.mkdtemp(prefix="partpick-bench-gui-"))
     example, big = work / "example.sqlite", work / "big.sqlite"
     build_library(example, None)
@@ -222,9 +226,14 @@ def main(argv=None) -> int:
     if args.only not in ("all", "redraw"):
         return 0
     for label, path, target in (("example library", example, 100.0), (f"{args.parts} parts", big, 300.0)):
-        for toml, role in (("reverse_polarity_24V.toml", "series"), ("zener_5V1_reference.toml", "zener")):
+        for toml, role, key in (("reverse_polarity_24V.toml", "series", "supply_max_V"),
+                                ("zener_5V1_reference.toml", "zener", "supply_max_V"),
+                                ("solenoid_valve_24V_zener.toml", "coil", "supply_max_V"),
+                                ("surge_input_24V.toml", "surge", "surge.surge_V")):
+            if role not in wanted:
+                continue
             for selected in (1, 4):
-                totals, checker = edit_to_redraw(path, args.repeat, selected, toml)
+                totals, checker = edit_to_redraw(path, args.repeat, selected, toml, key)
                 print(_summary(f"edit → redrawn, {label}, {role}, {selected} part(s) plotted", totals, target))
                 print(_summary("    of which run_check", checker))
     return 0

@@ -110,3 +110,13 @@ def test_policy_refusals(text, pattern):
 def test_policy_dict_refusals(data, pattern):
     with pytest.raises(InputError, match=pattern):
         Policy.from_dict(data, "src")
+
+
+def test_tvs_pulse_power_limits():
+    # SPEC §4: TVS parts get a pulse-power limit, commercial 80 %, high_reliability 50 %
+    # (MIL-STD-975M appendix A as transcribed: transient suppressors, power ≤ 50 %).
+    assert BUILTIN_POLICIES["commercial"].groups["tvs"].pulse_power_pct == 80.0
+    assert BUILTIN_POLICIES["high_reliability"].groups["tvs"].pulse_power_pct == 50.0
+    assert BUILTIN_POLICIES["ratings_only"].groups["tvs"].pulse_power_pct == 100.0
+    with pytest.raises(InputError, match=r"tvs\.pulse_power_pct: 120 is out of range"):
+        policy_from_toml('name = "x"\n[tvs]\npulse_power_pct = 120\n', "p.toml")

@@ -148,14 +148,20 @@ def test_a_private_device_node_is_written_directly_never_replaced(lib, req, tmp_
         assert stat.S_ISCHR(after.st_mode) and after.st_rdev == before.st_rdev and after.st_ino == before.st_ino
 
 
-def test_dev_full_as_output_is_exit_1_naming_the_file(lib, req, capsys):
-    # /dev/full (Linux devices.txt: char 1:7) fails every write with ENOSPC; it is written
-    # directly (not replaced) and the failure is one line naming the file.
-    if not os.path.exists("/dev/full"):
-        pytest.skip("no /dev/full on this system")
-    assert main(["library", "export", "--library", str(lib), "--output", "/dev/full"]) == 1
+@pytest.mark.skipif(not ROOT, reason="os.mknod of a character device needs root")
+def test_a_full_device_as_output_is_exit_1_naming_the_file(lib, req, capsys, tmp_path):
+    # A private node with the numbers of the full device (Linux devices.txt: char 1:7), which fails
+    # every write with ENOSPC, made in the test's own folder: a regression that replaced its output
+    # would replace this node, never the system's /dev/full. It is written directly (not replaced)
+    # and the failure is one line naming the file.
+    node = tmp_path / "fulldev"
+    os.mknod(node, 0o600 | stat.S_IFCHR, os.makedev(1, 7))
+    before = os.lstat(node)
+    assert main(["library", "export", "--library", str(lib), "--output", str(node)]) == 1
     err = capsys.readouterr().err
-    assert err.count("\n") == 1 and "/dev/full" in err and "No space left" in err
+    assert err.count("\n") == 1 and str(node) in err and "No space left" in err
+    after = os.lstat(node)
+    assert stat.S_ISCHR(after.st_mode) and after.st_ino == before.st_ino
 
 
 def test_a_reader_that_goes_away_is_one_line_not_a_traceback(tmp_path):
@@ -286,11 +292,13 @@ def test_sigkill_during_a_report_write_leaves_the_old_report(lib, req, tmp_path)
 
 # -- item 8: stdout and terminals ---------------------------------------------------------------------
 
-@pytest.mark.skipif(not os.path.exists("/dev/full"), reason="no /dev/full on this system")
+@pytest.mark.skipif(not ROOT, reason="os.mknod of a character device needs root")
 @pytest.mark.parametrize("argv", [["library", "list"], ["library", "export"], ["policy", "list"], ["check", "REQ"]])
-def test_a_full_stdout_is_exit_1_with_one_line(lib, req, argv):
+def test_a_full_stdout_is_exit_1_with_one_line(lib, req, argv, tmp_path):
     argv = [str(req) if a == "REQ" else a for a in argv] + ["--library", str(lib)]
-    with open("/dev/full", "wb") as full:
+    node = tmp_path / "fulldev"  # a private full device (char 1:7), as above
+    os.mknod(node, 0o600 | stat.S_IFCHR, os.makedev(1, 7))
+    with open(node, "wb") as full:
         result = subprocess.run([sys.executable, "-m", "partpick", *argv], stdout=full, stderr=subprocess.PIPE,
                                 env={**os.environ, "QT_QPA_PLATFORM": "offscreen"})
     err = result.stderr.decode()

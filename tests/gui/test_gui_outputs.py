@@ -23,8 +23,13 @@ def _reader(path, sink):
 @pytest.mark.parametrize("command", ["library.export", "report.export", "curves.export", "requirement.save_as"])
 def test_a_window_export_onto_the_open_library_is_refused(window, prompt, library_path, command):
     before = library_path.read_bytes()
-    prompt.paths.append(str(library_path))
+    target = library_path
+    if command == "report.export":  # a report needs a .html/.pdf name: the library under a second name
+        target = library_path.with_name("library.html")
+        os.link(library_path, target)
+    prompt.paths.append(str(target))
     window.actions[command].trigger()
+    assert os.stat(target).st_ino == os.stat(library_path).st_ino  # still the library, not replaced
     assert prompt.errors, "the user was not told"
     title, text = prompt.errors[-1]
     assert "library" in text or "SQLite" in text
@@ -48,13 +53,13 @@ def test_a_window_export_onto_another_database_is_refused(window, prompt, tmp_pa
 def test_the_report_may_not_replace_the_requirement_it_came_from(window, prompt, tmp_path):
     from partpick.gui.commands import save_requirement_file
 
-    requirement = tmp_path / "req.toml"
+    requirement = tmp_path / "req.html"  # a TOML file under a name a report could take
     save_requirement_file(window.bench, requirement)
     before = requirement.read_bytes()
-    prompt.paths.append(str(requirement.with_suffix(".toml")))
+    prompt.paths.append(str(requirement))
     window.actions["report.export"].trigger()
     assert requirement.read_bytes() == before
-    assert prompt.errors
+    assert prompt.errors and "inputs" in prompt.errors[-1][1]
 
 
 def test_window_exports_follow_links_and_write_fifos(window, prompt, tmp_path):

@@ -13,8 +13,9 @@ GOOD = HEADER + "\nTST-2,rectifier,400,1,2e-9,1.9,0.04,0.05\nTST-1,schottky,40,3
 
 
 @pytest.fixture
-def made(tmp_path, capsys):
-    path = tmp_path / "cli.sqlite"
+def made(library_location, capsys):
+    # A new SQLite file and, with a server (PARTPICK_TEST_POSTGRES_URL), the PostgreSQL test database.
+    path = library_location
     assert main(["library", "new", str(path)]) == 0
     assert capsys.readouterr().out.startswith("created library ")
     return path

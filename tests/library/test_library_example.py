@@ -93,7 +93,8 @@ def test_example_covers_the_scenario(fresh_build):
         parts = library.list_parts()
     kinds = Counter(p["kind"] for p in parts)
     assert len(parts) >= 60
-    assert set(kinds) == {"rectifier", "signal", "schottky", "fast_recovery", "zener"}
+    assert {"rectifier", "signal", "schottky", "fast_recovery", "zener", "tvs"} <= set(kinds)
+    assert any(p["ifrm_A"] is not None and p["trr_s"] is not None for p in parts)  # coil-clamp diodes
     assert any(p["lifecycle"] in ("nrnd", "obsolete") for p in parts)
     assert any(p["model_source"] == "fitted" for p in parts)
     assert any(p["model_source"] == "entered" and not p["vf_points"] for p in parts)

@@ -261,6 +261,25 @@ def test_the_reviewer_name_follows_the_text_rules(tmp_path, library_path, librar
     assert "--reviewer" in capsys.readouterr().err
 
 
+def test_requirement_and_policy_names_follow_the_text_rules(library):
+    from partpick.checks.requirement import requirement_from_toml
+
+    with pytest.raises(InputError, match="name holds a bidirectional control"):
+        requirement_from_toml('name = "PSU \u202erev B"\nrole = "series"\n', "r.toml")
+    with pytest.raises(InputError, match="description holds a control character"):
+        library.save_policy({"name": "house", "description": "ok\x1b[31m red"})
+
+
+def test_the_windows_problem_list_is_bounded_too(library, write_csv):
+    from partpick.gui.commands import _problem_lines
+
+    rows = "".join(f"BAD-{i},rectifier,-1\n" for i in range(80))
+    with pytest.raises(InputError) as caught:
+        library.import_csv(write_csv("part_number,kind,vrrm_V\n" + rows))
+    lines = _problem_lines(caught.value)
+    assert len(lines) == 51 and lines[-1] == f"and {len(caught.value.problems) - 50} more"
+
+
 # -- item 10: contradictory values ------------------------------------------------------------------
 
 @pytest.mark.parametrize("changes, field, words", [
