@@ -350,6 +350,8 @@ class CurvesView(QWidget):
         page = self.current_page()
         if page is not None and page.dirty:
             self._draw(page)
+        else:
+            self._update_legends()  # the legend names the visible tab's curves
 
     # -- export ---------------------------------------------------------------
     def export_image(self, path: str) -> None:

@@ -80,8 +80,6 @@ class RequirementView(QScrollArea):
             outer.addWidget(box)
         outer.addStretch(1)
         self.setWidget(body)
-        # No horizontal scrolling: the panel is never narrower than its widest row.
-        self.setMinimumWidth(body.minimumSizeHint().width() + self.verticalScrollBar().sizeHint().width() + 4)
         model.field_changed.connect(self._update_field)
         model.loaded.connect(self._update_all)
         model.role_changed.connect(self._update_role)
@@ -179,6 +177,13 @@ class RequirementView(QScrollArea):
         self.groups["Zener"].setVisible(role == "zener_shunt")
         for name in ROLE_GROUPS:
             self.groups[name].setVisible(role == name)
+
+        # No horizontal scrolling: the panel is never narrower than its widest row — of the rows this
+        # role shows (the hidden groups of other roles must not widen it, as they did at 1366 px).
+        body = self.widget()
+        if body is not None:
+            body.adjustSize()
+            self.setMinimumWidth(body.minimumSizeHint().width() + self.verticalScrollBar().sizeHint().width() + 4)
 
     def _update_form_error(self) -> None:
         text = self.model.form_error if self.model.form_error and not self.model.form_error_key else ""

@@ -113,3 +113,17 @@ def test_the_legend_sits_outside_every_plot(window, qtbot):
     assert legend_top >= tabs_bottom
     curves.legend_button.click()  # collapsible
     assert not curves.legend.isVisible()
+
+
+def test_the_legend_follows_the_visible_tab(window):
+    import html
+
+    load(window, ZENER_TOML)
+    curves = window.curves
+    for key, section in (("zener_output", "zener_output"), ("iv", "breakdown"), ("zener_output", "zener_output")):
+        curves.tabs.setCurrentWidget(curves.pages[key])
+        text = curves.legend.text()
+        labels = [c["label"] for c in curves.curve_sets[0][section]["curves"]]
+        assert all(html.escape(label) in text for label in labels), key
+        other = "breakdown" if section == "zener_output" else "zener_output"
+        assert not any(html.escape(c["label"]) in text for c in curves.curve_sets[0][other]["curves"]), key
