@@ -74,6 +74,9 @@ def parse_quantity(text: str | float | int, unit: str = "", *, name: str = "valu
     # the reverse ('1m' is milli, '2 A' is amperes); let the split below decide.
     if prefix and not written_unit and unit and _canonical(prefix) == _canonical(unit):
         prefix, written_unit = "", prefix
+    # A unit that starts with a prefix letter ('K/W', 'mm²') is the unit, not kilo or milli of '/W' or 'm²'.
+    if prefix and written_unit and unit and _canonical(prefix + written_unit) == _canonical(unit):
+        prefix, written_unit = "", prefix + written_unit
     if written_unit:
         if written_unit.lower() in ("ohm", "ohms"):
             written_unit = "Ω"

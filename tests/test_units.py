@@ -60,3 +60,13 @@ def test_format_round_trips():
         assert parse_quantity(format_quantity(value, "A"), "A") == pytest.approx(value, rel=1e-3)
     with pytest.raises(ValueError, match="not finite"):
         format_quantity(float("inf"), "V")
+
+
+def test_a_unit_that_starts_with_a_prefix_letter_is_the_unit():
+    # "1 K/W" is one kelvin per watt, not a kilo of "/W"; the form writes values back this way.
+    from partpick.units import format_quantity, parse_quantity
+
+    assert parse_quantity("1 K/W", "K/W") == 1.0
+    assert parse_quantity("2.5K/W", "K/W") == 2.5
+    assert parse_quantity(format_quantity(8.0, "K/W"), "K/W") == 8.0
+    assert parse_quantity("1.5 kK/W", "K/W") == 1500.0

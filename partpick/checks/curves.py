@@ -158,10 +158,18 @@ def record_thermal(part: dict, req: dict, notes: list[str]):
     rth = number(part, "rth_ja_K_per_W")
     rates = tj_max is not None and tj_max > pd_ref
     design = number(req, "rth_ja_K_per_W")
-    if design is not None:
-        rth = design
-        pd = (tj_max - pd_ref) / rth if rates else None
-        notes.append(f"RthJA = {rth:g} K/W from the requirement (the design's board) replaces the part's")
+    mount_rth = _mount_thermal_resistance(part, req.get("thermal") or {}, notes)
+    in_use = design if design is not None else mount_rth
+    if in_use is None and part.get("pd_ref_point") in ("lead", "case") and rth is not None:
+        in_use = rth  # a lead- or case-rated Pd gives no RthJA: Pallow follows the part's RthJA
+    if in_use is not None:
+        rth = in_use
+        if design is not None:
+            notes.append(f"RthJA = {rth:g} K/W from the requirement (the design's board) replaces the part's")
+        # Pallow = (Tj max − Ta)/RthJA in use at every ambient (SPEC §3): the rating curve of
+        # `allowed_power` with its reference at absolute zero is exactly that line.
+        pd_ref = -273.15 + 1e-6
+        pd = (tj_max - pd_ref) / rth if tj_max is not None else None
     elif rth is None and pd is not None and rates:
         rth = (tj_max - pd_ref) / pd
     elif pd is None and rth is not None and rates:
@@ -170,6 +178,29 @@ def record_thermal(part: dict, req: dict, notes: list[str]):
         notes.append("no RthJA or Pd: self-heating is not shown (Tj = Ta)")
         rth = 0.0
     return rth, tj_max, pd, pd_ref
+
+
+def _mount_thermal_resistance(part: dict, mount: dict, notes: list[str]) -> float | None:
+    """RthJA of the requirement's [thermal] mount for one part (as `partdata.thermal_data`), or None."""
+    from partpick.physics.thermal_path import board_thermal_resistance, heatsink_thermal_resistance
+
+    kind = mount.get("mount")
+    if kind == "board":
+        values = [number(part, k) for k in ("rth_ja_area_mm2", "rth_ja_K_per_W", "rth_ja_large_area_mm2",
+                                             "rth_ja_large_K_per_W")]
+        if None in values or mount.get("copper_area_mm2") is None:
+            return None
+        rth, _ = board_thermal_resistance(float(mount["copper_area_mm2"]), *values)
+        notes.append(f"board mount: RthJA {rth:.3g} K/W on {mount['copper_area_mm2']:g} mm² of copper")
+        return float(rth)
+    if kind == "heatsink":
+        jc = number(part, "rth_jc_K_per_W")
+        if jc is None or mount.get("rth_sa_K_per_W") is None:
+            return None
+        rth = heatsink_thermal_resistance(jc, float(mount.get("rth_cs_K_per_W", 1.0)), float(mount["rth_sa_K_per_W"]))
+        notes.append(f"heatsink mount: RthJA = RthJC + RthCS + RthSA = {rth:.3g} K/W")
+        return float(rth)
+    return None
 
 
 def check_of(candidate: dict, name: str) -> dict | None:

@@ -26,6 +26,9 @@ from partpick.library.fields import KINDS, LIFECYCLES
 __all__ = [
     "Requirement",
     "ZenerRequirement",
+    "ThermalRequirement",
+    "THERMAL_DEFAULTS",
+    "MOUNTS",
     "DEFAULTS",
     "ZENER_DEFAULTS",
     "OBJECTIVES",
@@ -80,6 +83,11 @@ ZENER_DEFAULTS: dict[str, Any] = {
     "resistor_tolerance_pct": None,    # derived: 5 % E12/E24, 1 % E48/E96
     "resistor_ohm": None,              # chosen from the series
 }
+# The [thermal] table (SPEC §3a): how the part is mounted.
+MOUNTS = ("board", "heatsink")
+THERMAL_DEFAULTS: dict[str, Any] = {
+    "rth_cs_K_per_W": 1.0,             # case to sink: an insulating pad (from memory), heatsink mounts only
+}
 DEFAULT_RULES = {
     "reverse_V": "supply_max_V (the supply reversed)",
     "zener.min_zener_current_A": "each part's izk_A",
@@ -118,9 +126,18 @@ _ZENER_KEY_RULES: dict[str, tuple] = {
     "resistor_tolerance_pct": (_NUM, 0.0, True, 50.0),
     "resistor_ohm": (_NUM, 0.0, False, 1e9),
 }
+_THERMAL_KEY_RULES: dict[str, tuple] = {
+    "copper_area_mm2": (_NUM, 0.0, False, 1e6),
+    "rth_cs_K_per_W": (_NUM, 0.0, True, 10e3),
+    "rth_sa_K_per_W": (_NUM, 0.0, True, 10e3),
+}
+# Which keys each mount needs and accepts.
+_MOUNT_KEYS = {"board": (("copper_area_mm2",), ("copper_area_mm2",)),
+               "heatsink": (("rth_sa_K_per_W",), ("rth_cs_K_per_W", "rth_sa_K_per_W"))}
+THERMAL_KEYS = ("mount",) + tuple(_THERMAL_KEY_RULES)
 _TEXT_KEYS = ("name", "role", "policy", "objective")
 _LIST_KEYS = {"kinds": KINDS, "packages": None, "lifecycle": LIFECYCLES}
-TOP_KEYS = tuple(dict.fromkeys(REQUIRED_KEYS + tuple(DEFAULTS) + ("zener",)))
+TOP_KEYS = tuple(dict.fromkeys(REQUIRED_KEYS + tuple(DEFAULTS) + ("zener", "thermal")))
 ZENER_KEYS = ZENER_REQUIRED_KEYS + tuple(ZENER_DEFAULTS)
 
 
@@ -148,6 +165,33 @@ class ZenerRequirement:
         out = {f.name: getattr(self, f.name) for f in fields(self)}
         out["resistor_tolerance_pct"] = self.resistor_tolerance
         return out
+
+
+@dataclass(frozen=True)
+class ThermalRequirement:
+    """The ``[thermal]`` table: how the part is mounted (SPEC §3a).
+
+    ``mount = "board"``: on ``copper_area_mm2`` of copper (RthJA from the part's
+    two datasheet areas, linear in ln area). ``mount = "heatsink"``: on a
+    heatsink of ``rth_sa_K_per_W`` through an interface of ``rth_cs_K_per_W``
+    (default 1.0 K/W): RthJA = RthJC + RthCS + RthSA.
+    """
+
+    mount: str
+    copper_area_mm2: float | None = None
+    rth_cs_K_per_W: float | None = None
+    rth_sa_K_per_W: float | None = None
+
+    @property
+    def interface(self) -> float:
+        """RthCS in force [K/W] (the default where not given)."""
+        return self.rth_cs_K_per_W if self.rth_cs_K_per_W is not None else THERMAL_DEFAULTS["rth_cs_K_per_W"]
+
+    def to_dict(self) -> dict:
+        out = {f.name: getattr(self, f.name) for f in fields(self)}
+        if self.mount == "heatsink":
+            out["rth_cs_K_per_W"] = self.interface
+        return {k: v for k, v in out.items() if v is not None}
 
 
 @dataclass(frozen=True)
@@ -186,6 +230,7 @@ class Requirement:
     lifecycle: tuple[str, ...] | None = None
     max_price: float | None = None
     zener: ZenerRequirement | None = None
+    thermal: ThermalRequirement | None = None
     tables: tuple[TableValues, ...] = ()   # the role's own table (RoleTable), validated
     source: str = field(default="requirement", compare=False)
 
@@ -216,7 +261,7 @@ class Requirement:
         unused = ROLES[self.role].unused_keys
         out: dict[str, Any] = {}
         for f in fields(self):
-            if f.name in ("source", "zener", "tables") or f.name in unused:
+            if f.name in ("source", "zener", "thermal", "tables") or f.name in unused:
                 continue
             value = getattr(self, f.name)
             out[f.name] = list(value) if isinstance(value, tuple) else value
@@ -225,6 +270,8 @@ class Requirement:
             out["reverse_V"] = self.reverse_V if self.reverse_V is not None else self.supply_max_V
         if self.zener is not None:
             out["zener"] = self.zener.to_dict()
+        if self.thermal is not None:
+            out["thermal"] = self.thermal.to_dict()
         for values in self.tables:
             out[values._table.name] = values.to_dict()
         return out
@@ -233,7 +280,7 @@ class Requirement:
         """A validated copy with some keys changed (used by the desktop app's form)."""
         data = self.to_raw_dict()
         for key, value in changes.items():
-            if key == "zener" and isinstance(value, ZenerRequirement):
+            if key in ("zener", "thermal") and isinstance(value, (ZenerRequirement, ThermalRequirement)):
                 value = {k: v for k, v in vars(value).items() if v is not None}
             if isinstance(value, TableValues):
                 value = value.given
@@ -250,7 +297,7 @@ class Requirement:
             value = getattr(self, f.name)
             if isinstance(value, tuple):
                 value = list(value)
-            if isinstance(value, ZenerRequirement):
+            if isinstance(value, (ZenerRequirement, ThermalRequirement)):
                 value = {g.name: getattr(value, g.name) for g in fields(value)}
             out[f.name] = value
         for values in self.tables:
@@ -434,6 +481,13 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     if zener is not None and "supply_max_V" in values and zener.target_V >= values["supply_max_V"]:
         reader.fail("target_V", f"{zener.target_V:g} V is not below supply_max_V = {values['supply_max_V']:g} V "
                                 "(a shunt regulator cannot raise its supply)", "zener")
+    thermal = None
+    if "thermal" in data:
+        thermal = _thermal_table(reader, data["thermal"])
+        if "rth_ja_K_per_W" in values:
+            reader.fail("rth_ja_K_per_W", "is given together with a [thermal] table; give one or the other "
+                                          "(rth_ja_K_per_W is one RthJA for every part, [thermal] says how each "
+                                          "part is mounted)")
     tables = ()
     if role.table is not None:
         if role.table.name not in data:
@@ -443,7 +497,34 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
             tables = (TableValues(role.table, {}),)
         else:
             tables = (_table_values(reader, role, data[role.table.name], values),)
-    return Requirement(**values, zener=zener, tables=tables, source=source)
+    return Requirement(**values, zener=zener, thermal=thermal, tables=tables, source=source)
+
+
+def _thermal_table(reader: _Reader, table) -> ThermalRequirement:
+    if not isinstance(table, dict):
+        reader.fail("thermal", f"{table!r} must be a table: write [thermal] on its own line with its keys below it")
+    for key in table:
+        if key not in THERMAL_KEYS:
+            reader.fail(key, f"unknown key in [thermal]{_suggest(key, THERMAL_KEYS)}", "thermal")
+    if "mount" not in table:
+        raise InputError(f"{reader.source}: [thermal] required key 'mount' is missing "
+                         f"(one of {', '.join(MOUNTS)})")
+    mount = table["mount"]
+    if not isinstance(mount, str) or mount not in MOUNTS:
+        reader.fail("mount", f"{mount!r} is not one of {', '.join(MOUNTS)}{_suggest(str(mount), MOUNTS)}",
+                    "thermal")
+    required, accepted = _MOUNT_KEYS[mount]
+    for key in table:
+        if key != "mount" and key not in accepted:
+            reader.fail(key, f"does not apply to mount = {mount!r} (it takes {', '.join(accepted)})", "thermal")
+    for key in required:
+        if key not in table:
+            raise InputError(f"{reader.source}: [thermal] mount = {mount!r} needs {key!r}")
+    values: dict[str, Any] = {"mount": mount}
+    for key, rule in _THERMAL_KEY_RULES.items():
+        if key in table:
+            values[key] = _number(reader, key, table[key], rule, "thermal")
+    return ThermalRequirement(**values)
 
 
 def _table_values(reader: _Reader, role, raw, common: dict) -> TableValues:
@@ -545,10 +626,13 @@ def requirement_to_toml(requirement: Requirement) -> str:
 
     raw = requirement.to_raw_dict()
     zener = raw.pop("zener")
+    thermal = raw.pop("thermal")
     tables = {values._table.name: raw.pop(values._table.name) for values in requirement.tables}
     top = {k: v for k, v in raw.items() if v is not None}
     if zener is not None:
         top["zener"] = {k: v for k, v in zener.items() if v is not None}
+    if thermal is not None:
+        top["thermal"] = {k: v for k, v in thermal.items() if v is not None}
     for name, given in tables.items():
         top[name] = dict(given)
     return tomli_w.dumps(top)

@@ -50,17 +50,23 @@ from partpick import __version__
 from partpick.checks.partdata import PartArrays
 from partpick.checks.policy import (BUILTIN_POLICIES, GROUPS, LIMIT_DESCRIPTIONS, NO_POLICY_NOTE, Policy,
                                     resolve_limits)
+from partpick.checks.limits import OperatingLimits, operating_limits
 from partpick.checks.ranking import Ranking, rank_candidates
 from partpick.checks.results import PointTable, finite_or_none, json_numbers, object_array
 from partpick.checks.roles import ROLES, Role, RoleResult
+from partpick.checks.sensitivity import Sensitivity, sensitivities
 from partpick.errors import InputError
 
-__all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_candidates", "resolve_policy"]
+__all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_candidates", "resolve_policy",
+           "analyse_candidates", "analyse_parts", "limits_json", "not_analysed_block", "ANALYSED_CANDIDATES"]
 
 _LIMIT_UNITS = {"reverse_pct": "%", "current_pct": "%", "power_pct": "%", "tj_cap_C": "°C", "tj_margin_K": "K",
                 "resistor_power_pct": "%", "surge_pct": "%",
                 "pulse_power_pct": "%"}
 _MAX_YIELD_RUNS = 1_000_000
+# Operating limits and sensitivity cost about 20 evaluations each: they are computed for the
+# candidates a reader looks at (SPEC §9: the 20 shown), not for a whole 10,000-part list.
+ANALYSED_CANDIDATES = 20
 
 
 @dataclass
@@ -258,9 +264,76 @@ def _deltas(entry: dict, reference: dict, parts_by_number: dict, role: Role) -> 
     return out
 
 
+def analyse_candidates(evaluation: Evaluation, index) -> tuple[OperatingLimits, Sensitivity]:
+    """Operating limits and "what sets the worst case" of the candidates ``index`` (SPEC §3a)."""
+    index = np.asarray(index, dtype=int)
+    ev = evaluation
+    limits = operating_limits(ev.role, ev.requirement, ev.parts, ev.limits, ev.result, index)
+    sens = sensitivities(ev.role, ev.requirement, ev.parts, ev.limits, ev.result, index, policy=ev.policy,
+                         policy_named=ev.policy_named)
+    return limits, sens
+
+
+def limits_json(limits: OperatingLimits, j: int) -> tuple[dict, dict]:
+    """The metrics (SPEC §3a names) and the ``operating_limits`` block of candidate ``j``."""
+    metrics = {k: finite_or_none(v[j]) for k, v in limits.values.items()}
+    notes = {k: t[j] for k, t in limits.notes.items() if t[j] is not None}
+    return metrics, {"summary": limits.summary[j], "notes": notes}
+
+
+def analyse_parts(requirement, parts, part_numbers, *, policies: dict | None = None) -> dict[str, dict]:
+    """Operating limits and sensitivity of the named candidates, as the JSON result carries them.
+
+    For the window: the selected part first, the rest of the shortlist after. Each part's
+    numbers equal those of ``run_check`` (a role evaluates every part on its own).
+
+    Returns
+    -------
+    dict
+        part number → ``{"metrics": {...limits}, "operating_limits": {...}, "sensitivity": [...]}``.
+    """
+    numbers = [n for n in dict.fromkeys(part_numbers)]
+    if not numbers:
+        return {}
+    wanted = set(numbers)
+    records = parts.parts if isinstance(parts, PartArrays) else parts
+    chosen = [p for p in records if p.get("part_number") in wanted]
+    ev = evaluate(requirement, chosen, policies=policies, keep=tuple(numbers))
+    index = np.array([ev.index_of(n) for n in numbers], dtype=int)
+    limits, sens = analyse_candidates(ev, index)
+    out = {}
+    for j, number in enumerate(numbers):
+        metrics, block = limits_json(limits, j)
+        out[number] = {"metrics": metrics, "operating_limits": block, "sensitivity": sens.entries[j]}
+    return out
+
+
+def _add_limits_and_sensitivity(evaluation: Evaluation, index, entries: list[dict], skipped: int) -> None:
+    index = np.asarray(index, dtype=int)
+    if index.size:
+        limits, sens = analyse_candidates(evaluation, index)
+    for j, entry in enumerate(entries):
+        if j < index.size:
+            metrics, block = limits_json(limits, j)
+            entry["metrics"].update(metrics)
+            entry["operating_limits"] = block
+            entry["sensitivity"] = sens.entries[j]
+        else:
+            entry["operating_limits"] = not_analysed_block(index.size, skipped)
+            entry["sensitivity"] = None
+
+
+def not_analysed_block(analysed: int, skipped: int) -> dict:
+    """The ``operating_limits`` of a listed candidate beyond the first ``analysed`` (none computed)."""
+    return {"summary": None, "notes": {}, "reason": (
+        f"not computed: operating limits and sensitivity are computed for the first {analysed} candidates "
+        f"listed ({skipped} more listed)")}
+
+
 def run_check(requirement, parts: list[dict], *, policies: dict | None = None, library: dict | None = None,
               top: int | None = None, part: str | None = None, substitutes_for: str | None = None,
-              yield_runs: int | None = None, seed: int = 0, reviewer: str | None = None) -> dict:
+              yield_runs: int | None = None, seed: int = 0, reviewer: str | None = None,
+              analyse: int | None = ANALYSED_CANDIDATES) -> dict:
     """Check ``parts`` against ``requirement`` and return the SPEC §5 JSON result dict.
 
     Parameters
@@ -284,6 +357,10 @@ def run_check(requirement, parts: list[dict], *, policies: dict | None = None, l
         Seed of the Monte Carlo.
     reviewer : str, optional
         Echoed as ``"reviewer"`` for the reports.
+    analyse : int, optional
+        Operating limits and sensitivity (SPEC §3a) for the first N candidates
+        listed (default `ANALYSED_CANDIDATES`; 0 or None: none); the others carry
+        ``"operating_limits"`` with the reason and ``"sensitivity": null``.
 
     Raises
     ------
@@ -331,6 +408,8 @@ def run_check(requirement, parts: list[dict], *, policies: dict | None = None, l
         yields = role.yield_pct(requirement, evaluation.parts, evaluation.result, listed, yield_runs, seed)
         for entry, y in zip(entries, yields):
             entry["metrics"]["yield_pct"] = finite_or_none(y)
+    _add_limits_and_sensitivity(evaluation, listed[:analyse] if analyse else listed[:0], entries,
+                                listed.size - min(analyse or 0, listed.size))
     if reference is not None:
         for entry in entries:
             entry["deltas"] = _deltas(entry, reference, parts_by_number, role)

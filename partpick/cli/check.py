@@ -32,6 +32,19 @@ def _positive_int(name: str):
     return parse
 
 
+def _count(name: str):
+    def parse(text: str) -> int:
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{name}: {text!r} is not a whole number") from None
+        if value < 0:
+            raise argparse.ArgumentTypeError(f"{name}: {value} must not be negative")
+        return value
+
+    return parse
+
+
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "check", help="check a library's parts against a requirement, rank them, write the shortlist or a report")
@@ -47,6 +60,9 @@ def register(subparsers) -> None:
                         help="Monte Carlo yield over N builds per listed candidate (zener_shunt)")
     parser.add_argument("--seed", type=int, default=0, help=argparse.SUPPRESS)
     parser.add_argument("--reviewer", metavar="NAME", help="reviewer named in html/pdf reports")
+    parser.add_argument("--limits-for", type=_count("--limits-for"), metavar="N", dest="limits_for",
+                        help="operating limits and what sets the worst case for the first N candidates listed "
+                             "(default 20; 0: none)")
     parser.set_defaults(func=run)
 
 
@@ -111,7 +127,8 @@ def run(args) -> int:
         info = {"location": library.location, "content_hash": library.content_hash(parts)}
     result = run_check(requirement, parts, policies=policies, library=info, top=args.top, part=args.part,
                        substitutes_for=args.substitutes_for, yield_runs=args.yield_runs, seed=args.seed,
-                       reviewer=args.reviewer)
+                       reviewer=args.reviewer,
+                       **({} if args.limits_for is None else {"analyse": args.limits_for}))
     parts_by_number = {p["part_number"]: p for p in parts}
     data = _render(result, args.format, parts_by_number, requirement, args)
     if target is not None:

@@ -27,6 +27,7 @@ from PySide6.QtWidgets import (
 from partpick.gui.commands import COMMANDS, MENUS, Workbench, import_csv_file
 from partpick.gui.curves_view import CurvesView
 from partpick.gui.library_view import LibraryView
+from partpick.gui.limits_view import LimitsComputer, LimitsPanel
 from partpick.gui.recompute import Rechecker
 from partpick.gui.requirement_view import RequirementView
 from partpick.gui.shortlist_view import ShortlistView
@@ -174,6 +175,11 @@ class MainWindow(QMainWindow):
         self.curves.export_button.setDefaultAction(self.actions["curves.export"])
 
         self.rechecker = Rechecker(bench, parent=self)
+        self.limits = LimitsComputer(bench, parent=self)
+        self.limits_panel = LimitsPanel(bench.result, self.limits, self.shortlist, self)
+        self.limits_dock = self._dock("Operating limits", "limits_dock", self.limits_panel,
+                                      Qt.DockWidgetArea.RightDockWidgetArea)
+        self.splitDockWidget(self.library_dock, self.limits_dock, Qt.Orientation.Vertical)
         bench.result.state_changed.connect(self._update_status)
         bench.result.changed.connect(self._update_status)
         bench.library.library_changed.connect(self._update_location)
@@ -366,6 +372,7 @@ class MainWindow(QMainWindow):
     def closeEvent(self, event) -> None:  # noqa: N802
         self.save_settings()
         self.rechecker.shutdown()
+        self.limits.shutdown()
         self._detach()
         for dialog in list(self.dialogs):
             dialog.close()

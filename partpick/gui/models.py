@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from partpick.errors import InputError
 from partpick.library.fields import KINDS
 from partpick.gui.observer import Signal
+from partpick.gui.thermal_fields import drop_empty_thermal, thermal_field_applies, thermal_fields
 from partpick.units import format_quantity, parse_quantity
 
 __all__ = [
@@ -162,7 +163,7 @@ def _role_group_fields() -> tuple[ReqField, ...]:
 
 ROLE_GROUPS = {role.name: role.form_group().title for role in _REGISTRY.values() if role.table is not None}
 """Role → the title of its own group in the form."""
-REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + _role_group_fields()
+REQUIREMENT_FIELDS = REQUIREMENT_FIELDS + thermal_fields(ReqField) + _role_group_fields()
 FIELDS_BY_KEY = {f.key: f for f in REQUIREMENT_FIELDS}
 ROLE_TABLES = {f.table for f in REQUIREMENT_FIELDS if f.table and f.table != "zener"}
 
@@ -263,6 +264,8 @@ class RequirementModel:
     def applies(self, key: str) -> bool:
         """Whether a field belongs to the current role's requirement."""
         spec = FIELDS_BY_KEY[key]
+        if spec.table == "thermal" and not thermal_field_applies(key, self.fields["thermal.mount"].value):
+            return False
         if spec.roles is not None:
             return self.role in spec.roles
         role = _REGISTRY.get(self.role)
@@ -376,7 +379,7 @@ class RequirementModel:
             if value is None:
                 continue
             (data[spec.table] if spec.table else data)[spec.toml_key] = value
-        return data
+        return drop_empty_thermal(data)
 
     def build_requirement(self):
         """The checker's `Requirement` for the current fields.

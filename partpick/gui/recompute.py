@@ -106,7 +106,8 @@ class Rechecker(QObject):
         self._timer.stop()
         self.generation += 1
         try:
-            job = self._bench.check_job(self.generation, top=SHORTLIST_LIMIT)
+            # Operating limits come after, selected part first (`gui.limits_view.LimitsComputer`).
+            job = self._bench.check_job(self.generation, top=SHORTLIST_LIMIT, analyse=0)
         except (InputError, LibraryError) as exc:
             self._bench.result.set_stale(f"Not rechecked: {exc}")
             return

@@ -13,6 +13,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from partpick.gui.thermal_fields import THERMAL_GROUP
 from partpick.gui.models import OBJECTIVES, REQUIREMENT_FIELDS, ROLE_GROUPS, ROLES, RequirementModel
 from partpick.gui.widgets import ERROR_COLOR, FieldEdit
 
@@ -22,6 +23,7 @@ _GROUPS = (
     ("Circuit", "Circuit"),
     ("Margins", "Derating policy and margins"),
     ("Limits", "Limits"),
+    THERMAL_GROUP,
     ("Zener", "Zener shunt regulator"),
     *ROLE_GROUPS.items(),  # each role's own table (group = the role's name)
     ("Filters", "Candidate filters"),
@@ -69,6 +71,8 @@ class RequirementView(QScrollArea):
         model.field_changed.connect(self._update_field)
         model.loaded.connect(self._update_all)
         model.role_changed.connect(self._update_role)
+        # The mount shows its own keys (board: copper area; heatsink: interface and heatsink).
+        model.field_changed.connect(lambda key: self._update_role(model.role) if key == "thermal.mount" else None)
         model.errors_changed.connect(self._update_form_error)
         self._update_all()
 

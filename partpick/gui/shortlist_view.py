@@ -19,6 +19,9 @@ _PASS_BRUSH = QBrush(PASS_COLOR)
 _FAIL_BRUSH = QBrush(FAIL_COLOR)
 _RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
 _FIXED = ("Rank", "Part", "Kind", "Package", "Result", "First failing check")
+# Optional columns: metric key → (header, unit, tooltip).
+_EXTRA_COLUMNS = {"max_ambient_C": ("Max ambient", "°C", "The highest ambient max at which every check passes "
+                                                          "(operating limit; the first 20 candidates)")}
 
 
 def check_cell_text(check: dict) -> str:
@@ -58,6 +61,7 @@ class ShortlistTableModel(QAbstractTableModel):
         self._checks: list[str] = []
         self._by_name: list[dict] = []
         self._texts: dict = {}
+        self._extra: tuple[str, ...] = ()  # optional metric columns after the fixed ones (`set_extra_columns`)
         model.changed.connect(self.refresh)
         self.refresh()
 
@@ -73,6 +77,36 @@ class ShortlistTableModel(QAbstractTableModel):
         self._by_name = [{c["name"]: c for c in candidate["checks"]} for candidate in self._candidates]
         self._texts: dict = {}
         self.endResetModel()
+
+    @property
+    def _first_check(self) -> int:
+        return len(_FIXED) + len(self._extra)
+
+    def set_extra_columns(self, keys) -> None:
+        """Show optional metric columns (`_EXTRA_COLUMNS`, e.g. ``max_ambient_C``) after the fixed ones."""
+        self.beginResetModel()
+        self._extra = tuple(k for k in keys if k in _EXTRA_COLUMNS)
+        self._texts = {}
+        self.endResetModel()
+
+    def refresh_extra(self) -> None:
+        """The optional columns' values arrived later than the result (operating limits)."""
+        if self._extra and self._candidates:
+            self.dataChanged.emit(self.index(0, len(_FIXED)), self.index(len(self._candidates) - 1,
+                                                                         self._first_check - 1))
+
+    def _extra_data(self, candidate: dict, key: str, role):
+        if role == Qt.ItemDataRole.DisplayRole:
+            value = (candidate.get("metrics") or {}).get(key)
+            if value is None:
+                return "…" if (candidate.get("operating_limits") or {}).get("summary") is None else "—"
+            return format_value(value, _EXTRA_COLUMNS[key][1])
+        if role == Qt.ItemDataRole.TextAlignmentRole:
+            return _RIGHT
+        if role == Qt.ItemDataRole.ToolTipRole:
+            block = candidate.get("operating_limits") or {}
+            return block.get("summary") or block.get("reason") or "not computed yet"
+        return None
 
     @property
     def check_names(self) -> list[str]:
@@ -91,15 +125,19 @@ class ShortlistTableModel(QAbstractTableModel):
         return 0 if parent.isValid() else len(self._candidates)
 
     def columnCount(self, parent=_ROOT) -> int:  # noqa: N802
-        return 0 if parent.isValid() else len(_FIXED) + len(self._checks)
+        return 0 if parent.isValid() else self._first_check + len(self._checks)
 
     def headerData(self, section, orientation, role=Qt.ItemDataRole.DisplayRole):  # noqa: N802
         if orientation != Qt.Orientation.Horizontal:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            return _FIXED[section] if section < len(_FIXED) else humanise(self._checks[section - len(_FIXED)])
-        if role == Qt.ItemDataRole.ToolTipRole and section >= len(_FIXED):
-            return f"Check {self._checks[section - len(_FIXED)]}: worst-corner value · margin (% of the limit)"
+            if len(_FIXED) <= section < self._first_check:
+                return _EXTRA_COLUMNS[self._extra[section - len(_FIXED)]][0]
+            return _FIXED[section] if section < len(_FIXED) else humanise(self._checks[section - self._first_check])
+        if role == Qt.ItemDataRole.ToolTipRole and len(_FIXED) <= section < self._first_check:
+            return _EXTRA_COLUMNS[self._extra[section - len(_FIXED)]][2]
+        if role == Qt.ItemDataRole.ToolTipRole and section >= self._first_check:
+            return f"Check {self._checks[section - self._first_check]}: worst-corner value · margin (% of the limit)"
         return None
 
     def data(self, index, role=Qt.ItemDataRole.DisplayRole):
@@ -109,7 +147,9 @@ class ShortlistTableModel(QAbstractTableModel):
         column = index.column()
         if column < len(_FIXED):
             return self._fixed_data(candidate, column, role)
-        check = self._by_name[index.row()].get(self._checks[column - len(_FIXED)])
+        if column < self._first_check:
+            return self._extra_data(candidate, self._extra[column - len(_FIXED)], role)
+        check = self._by_name[index.row()].get(self._checks[column - self._first_check])
         if check is None:
             return "n/a" if role == Qt.ItemDataRole.DisplayRole else None
         if role == Qt.ItemDataRole.DisplayRole:

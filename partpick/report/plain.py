@@ -195,6 +195,25 @@ def delta_text(value, key: str) -> str:
     return clean_text(_delta_cell(value))
 
 
+def limits_lines(candidates: list[dict]) -> list[str]:
+    """The operating limits and the largest sensitivity of each candidate that has them (SPEC §3a)."""
+    out = []
+    for c in candidates:
+        block = c.get("operating_limits") or {}
+        if block.get("summary") is None:
+            continue
+        line = f"  {clean_text(c.get('part_number'))}: {clean_text(block['summary'])}"
+        top = (c.get("sensitivity") or [])[:2]
+        if top:
+            line += "; worst case set by " + ", ".join(
+                f"{clean_text(x['input'])} ({x['step']}: {x['margin_change_pct']:+.2g} % points)".replace("-", "−")
+                for x in top)
+        out.append(line)
+    if out:
+        out = ["", "Operating limits (each alone) and what sets the worst case:"] + out
+    return out
+
+
 def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
     """The ranked shortlist as an aligned text table for a terminal."""
     req = result.get("requirement") or {}
@@ -229,6 +248,7 @@ def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
             for number, delta in deltas:
                 items = [f"{k} {delta_text(v, k)}" for k, v in delta.items() if v is not None]
                 lines.append(f"  {clean_text(number)}: " + ", ".join(items))
+        lines += limits_lines(result.get("candidates", []))
     else:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
     lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "

@@ -19,6 +19,7 @@ from partpick.report.words import (
     CAUTIONS,
     CHECK_LABELS,
     FORMULAS,
+    LIMIT_ORDER,
     METRIC_LABELS,
     METRIC_ORDER,
     OBJECTIVE_LABELS,
@@ -104,6 +105,9 @@ def _shortlist_widths(columns: int) -> list[int]:
     return [4, 14, 16, 8, 9, 9, 7, 9, 7, 6, 11]  # with the Yield column
 
 
+SENSITIVITY_IMAGE = "sensitivity"
+
+
 def subject_candidate(result: dict, part: str | None = None) -> dict | None:
     """The candidate whose check sheet the report shows: ``part`` (``--part``), else the top-ranked one."""
     candidates = result.get("candidates", [])
@@ -139,13 +143,16 @@ def curve_images(requirement, part_record: dict | None, candidate: dict | None) 
                         plots.draw_section(plot_item, curves.get(_s), **_o))
                 images.append((section.replace("_", "-") + ("-log" if options.get("log_y") else ""), title,
                                plots.section_png(draw, data)))
-        return images, list(data["notes"])
     for name, caption, draw_name, options in IMAGE_PLOTS.get(data["role"], ()):
         section = {"draw_forward": "forward", "draw_breakdown": "breakdown", "draw_zener_output": "zener_output",
                    "draw_junction_temperature": "junction_temperature", "draw_power": "power"}[draw_name]
         if data.get(section) is None:
             continue
         images.append((name, caption, plots.section_png(getattr(plots, draw_name), data, **options)))
+    if candidate.get("sensitivity"):
+        images.append((SENSITIVITY_IMAGE, "What sets the worst case: smallest margin change per input step",
+                       plots.section_png(plots.draw_sensitivity, candidate["sensitivity"], width=820,
+                                         height=90 + 46 * len(candidate["sensitivity"]))))
     return images, list(data["notes"])
 
 
@@ -240,8 +247,37 @@ def _check_sheet(candidate: dict, part_record: dict | None) -> str:
     return _table(header, rows, numeric={1, 2}, raw=True, widths=[17, 12, 10, 12, 17, 18, 14])
 
 
-def _metrics_table(candidate: dict) -> str:
+def _limits_section(candidate: dict, sensitivity_img: str | None) -> str:
+    """Operating limits and "what sets the worst case" of the check sheet (SPEC §3a)."""
+    block = candidate.get("operating_limits") or {}
     metrics = candidate.get("metrics") or {}
+    out = ["<h3>Operating limits</h3>"]
+    if block.get("summary") is None:
+        out.append(f"<p>{e(block.get('reason') or 'not computed')}</p>")
+    else:
+        out.append(f"<p><b>{e(block['summary'])}</b> (each limit alone, the rest of the requirement as given; "
+                   "discrete choices held).</p>")
+        notes = block.get("notes") or {}
+        rows = [[METRIC_LABELS.get(k, k), k, format_value(metrics.get(k), metric_unit(k)), notes.get(k) or ""]
+                for k in LIMIT_ORDER if k in metrics]
+        out.append(_table(["Limit", "Key", "Value", "Note"], rows, numeric={2}, widths=[24, 24, 14, 38]))
+    out.append("<h3>What sets the worst case</h3>")
+    entries = candidate.get("sensitivity")
+    if not entries:
+        out.append("<p>" + ("not computed for this candidate" if entries is None else
+                            "no input moves the smallest margin (or it is not known)") + "</p>")
+        return "\n".join(out)
+    rows = [[x["input"], x["step"], f"{x['margin_change_pct']:+.3g}".replace("-", "−")] for x in entries]
+    out.append("<p>Change of the smallest check margin (in % points) for one step of each input, "
+               "largest first:</p>")
+    out.append(_table(["Input", "Step", "Margin change [% points]"], rows, numeric={2}, widths=[45, 20, 35]))
+    if sensitivity_img:
+        out.append(f'<p><img src="{e(sensitivity_img)}" width="620" alt="What sets the worst case"/></p>')
+    return "\n".join(out)
+
+
+def _metrics_table(candidate: dict) -> str:
+    metrics = {k: v for k, v in (candidate.get("metrics") or {}).items() if k not in LIMIT_ORDER}
     keys = [k for k in METRIC_ORDER if k in metrics] + sorted(set(metrics) - set(METRIC_ORDER))
     rows = [[METRIC_LABELS.get(k, k), k, format_value(metrics[k], metric_unit(k))] for k in keys]
     return _table(["Metric", "Key", "Worst-case value"], rows, numeric={2})
@@ -373,6 +409,8 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         out.append(_check_sheet(subject, record))
         out.append("<h3>Worst-case values</h3>")
         out.append(_metrics_table(subject))
+        chart = next((image_src(n, png) for n, _c, png in images if n == SENSITIVITY_IMAGE), None)
+        out.append(_limits_section(subject, chart))
         if record:
             out.append("<h3>Part data used</h3>")
             out.append(_part_table(record))
@@ -381,6 +419,8 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         for note in image_notes:
             out.append(f'<p class="small">{e(note)}</p>')
         for name, caption, png in images:
+            if name == SENSITIVITY_IMAGE:
+                continue  # shown in the check sheet beside its table
             out.append(f'<p><img src="{e(image_src(name, png))}" width="620" alt="{e(caption)}"/><br/>'
                        f'<span class="small">{e(caption)}</span></p>')
 

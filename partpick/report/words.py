@@ -9,7 +9,7 @@ from partpick.checks.curves import corner_label, format_engineering
 
 __all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
            "clean_text", "CAUTIONS", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
-           "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS"]
+           "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER"]
 
 ROLE_LABELS = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
 OBJECTIVE_LABELS = {"drop": "Lowest drop", "dissipation": "Lowest dissipation", "headroom": "Most headroom",
@@ -51,7 +51,11 @@ METRIC_LABELS = {
     "zener_power_W": "Zener power", "regulation_error_pct": "Regulation error",
     "line_regulation_mV_per_V": "Line regulation", "load_regulation_mV_per_mA": "Load regulation",
     "yield_pct": "Yield",
+    "max_ambient_C": "Max ambient", "max_load_A": "Max load", "max_rth_ja_K_per_W": "Max RthJA",
+    "max_rth_sa_K_per_W": "Smallest heatsink (max RthSA)", "min_copper_area_mm2": "Min copper area",
 }
+# SPEC §3a operating limits, in sheet order.
+LIMIT_ORDER = ("max_ambient_C", "max_load_A", "max_rth_ja_K_per_W", "max_rth_sa_K_per_W", "min_copper_area_mm2")
 KEY_METRICS = {
     "series": ("forward_drop_V", "dissipation_W", "junction_temp_C", "reverse_stress_pct"),
     "zener_shunt": ("series_resistor_ohm", "regulation_error_pct", "zener_power_W", "junction_temp_C"),
@@ -91,7 +95,8 @@ def _merge_role_words() -> None:
 
 _merge_role_words()
 
-_SUFFIX_UNITS = (("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"), ("_pct_per_K", "%/K"),
+_SUFFIX_UNITS = (("_mm2", "mm²"), ("_mV_per_mA", "mV/mA"), ("_mV_per_V", "mV/V"), ("_K_per_W", "K/W"),
+                 ("_pct_per_K", "%/K"),
                  ("_ohm", "Ω"), ("_pct", "%"), ("_ms", "ms"), ("_eV", "eV"), ("_V", "V"),
                  ("_A2s", "A²s"), ("_A", "A"), ("_W", "W"), ("_C", "°C"), ("_K", "K"), ("_F", "F"),
                  ("_J", "J"), ("_s", "s"))
@@ -207,6 +212,22 @@ FORMULAS = (
      "RthJA = (Tj max − Tref)/Pd",
      "JEDEC JESD51 (the RthJA junction-to-ambient thermal resistance); the linear derating curve of "
      "datasheets."),
+    ("Thermal path (board or heatsink mount)",
+     "board: RthJA(A) = R1 + (R2 − R1)·ln(A/A1)/ln(A2/A1) through the datasheet's two copper areas, "
+     "extended below A1 (extrapolated), held at R2 above A2; heatsink: RthJA = RthJC + RthCS + RthSA "
+     "(RthCS default 1.0 K/W, an insulating pad); Pallow = (Tj max − Ta)/RthJA in use; a lead- or "
+     "case-rated rating refers to Tj − P·RthJL (RthJC)",
+     "JEDEC JESD51 (a datasheet RthJA is a test-board figure in still air); the ln-area line and the flat "
+     "part above the larger area are partpick's assumptions; the pad value is from memory."),
+    ("Operating limits",
+     "the highest ambient max [ambient_min, Tj max] to 0.1 K, the highest load max [0, 10 × load_max] and "
+     "the largest RthJA [0, 10 × RthJA in use] to 0.1 %, each at which every check passes, by bisection "
+     "with the discrete choices (E-series resistor, power class) held",
+     "partpick's method."),
+    ("What sets the worst case",
+     "change of the smallest margin (% points) for +1 % of each input (+1 K temperatures; from 0: 1 mA, "
+     "0.01 %/K, one-sided), central differences, discrete choices held; the five largest, signed",
+     "partpick's method."),
     ("Self-heating",
      "Tj = Ta + P(Tj)·RthJA solved per corner by Newton's method",
      "Standard numerical practice (Newton iteration on the electrothermal balance)."),

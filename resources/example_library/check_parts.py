@@ -216,13 +216,21 @@ def pallow(p, ta):
 def series_precheck(req, p):
     fails = []
     rth = req.get("rth_ja_K_per_W") or rth_of(p)
+    thermal = req.get("thermal") or {}
+    if thermal.get("mount") == "heatsink":  # RthJC + RthCS + RthSA
+        if p.get("rth_jc_K_per_W") is None:
+            return ["data_missing"]
+        rth = p["rth_jc_K_per_W"] + thermal.get("rth_cs_K_per_W", 1.0) + thermal["rth_sa_K_per_W"]
     group = "schottky" if p["kind"] == "schottky" else "pn"
     drops, outs, tjs = [], [], []
     for vs in (req["supply_min_V"], req["supply_max_V"]):
         for i in (req["load_min_A"], req["load_max_A"]):
             for ta in (req["ambient_min_C"], req["ambient_max_C"]):
                 cold = vf(p, i, ta)
-                tj = brentq(lambda t: t - ta - vf(p, i, t) * i * rth, ta - 1, ta + 2000)
+                try:
+                    tj = brentq(lambda t: t - ta - vf(p, i, t) * i * rth, ta - 1, ta + 2000)
+                except ValueError:  # no self-heated solution: forward runaway
+                    return fails + ["forward runaway"]
                 hot = vf(p, i, tj)
                 drops += [cold, hot]
                 outs += [vs - cold, vs - hot]
@@ -350,6 +358,8 @@ def requirement_prechecks(parts):
         else:
             cands = [p for p in parts if p["kind"] == "zener"]
         cands = [p for p in cands if p["lifecycle"] in allowed and (not kinds or p["kind"] in kinds)]
+        if req.get("packages"):
+            cands = [p for p in cands if p["package"] in req["packages"]]
         passing, failing = [], Counter()
         notes = []
         for p in cands:

@@ -53,10 +53,27 @@ COLUMNS = (
     "eg_eV", "is_temp_exponent", "model_source", "vf_points", "vf_max_V",
     "vf_max_at_A", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "vz_V",
     "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K",
+    "pd_ref_point", "if_ref_point", "rth_jc_K_per_W", "rth_jl_K_per_W", "rth_ja_area_mm2",
+    "rth_ja_large_K_per_W", "rth_ja_large_area_mm2",
     "price", "lifecycle", "notes",
 )
 # The coil-clamp and TVS columns (protection_parts.py), after the others.
 COLUMNS = COLUMNS[:-3] + tuple(c for c in PROTECTION_COLUMNS if c not in COLUMNS) + COLUMNS[-3:]
+
+# ---------------------------------------------------------------------------
+# Thermal path of the power packages (invented, plausible): the datasheet RthJA
+# of the table below is the one on the smaller copper area; on the larger area
+# it falls by the factor given. Heatsink packages (TO-220AC, DPAK) rate IF(AV)
+# at the case and give RthJC; SMC rates it at the lead and gives RthJL. The
+# junction-to-case/lead resistance falls with the die size (the current rating).
+#   package: (small area [mm2], large area [mm2], RthJA large/small,
+#             reference point, K*A for RthJC or RthJL = value / IF(AV))
+# ---------------------------------------------------------------------------
+POWER_THERMAL = {
+    "TO-220AC": (100.0, 1000.0, 0.62, "case", 16.0),
+    "DPAK": (40.0, 650.0, 0.55, "case", 20.0),
+    "SMC": (25.0, 600.0, 0.60, "lead", 40.0),
+}
 
 MAKERS = {
     "QF": "Quillfen Semiconductor",
@@ -447,6 +464,19 @@ def _zener_pair(cls_name, cls, vz, tc, tolerances=(2, 5)):
     return out
 
 
+def power_thermal(package, if_avg, tj_max, pd, rth):
+    """RthJC or RthJL, the rating point and RthJA at two copper areas for a power package (else {})."""
+    if package not in POWER_THERMAL:
+        return {}
+    small_area, large_area, factor, point, k = POWER_THERMAL[package]
+    small = rth if rth is not None else (tj_max - 25) / pd
+    out = dict(rth_ja_K_per_W=small, rth_ja_area_mm2=small_area, rth_ja_large_area_mm2=large_area,
+               rth_ja_large_K_per_W=sig(small * factor, 2), if_ref_point=point)
+    path = sig(max(k / if_avg, 0.8), 2)
+    out["rth_jc_K_per_W" if point == "case" else "rth_jl_K_per_W"] = path
+    return out
+
+
 def forward_rows():
     rows = []
     for kind, table in KIND_TABLES:
@@ -466,6 +496,7 @@ def forward_rows():
                 vf_max_at_A=vf_max_at, ir_A=ir, ir_vr_V=ir_vr, ir_t_C=25,
                 ir_double_K=ir_double, price=price, lifecycle=lifecycle, notes=notes,
             )
+            row.update(power_thermal(package, if_avg, tj_max, pd, rth))
             if form == "entered":
                 row.update(is_A=is_a, n=n, rs_ohm=rs, model_source="entered")
             else:

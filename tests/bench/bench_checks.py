@@ -9,7 +9,10 @@ Measures, on a generated library of invented parts:
 - `partpick check ... --format json --top 20` end to end in a fresh process,
   start-up included, on a temporary SQLite library (target < 2 s);
 - peak memory (resident set) of that process (target < 200 MB);
-- `run_check` on the bundled example library with each example requirement.
+- `run_check` on the bundled example library with each example requirement;
+- operating limits and "what sets the worst case" for the 20 candidates shown
+  (SPEC §9 target ≤ 200 ms), on the example library and the generated one
+  (``--limits-only`` runs just these).
 """
 
 from __future__ import annotations
@@ -33,7 +36,9 @@ sys.path.insert(0, str(ROOT))
 from partpick.checks.partdata import PartArrays  # noqa: E402
 from partpick.checks.requirement import requirement_from_dict  # noqa: E402
 from partpick.library.fields import empty_part  # noqa: E402
-from partpick.checks.service import evaluate, run_check  # noqa: E402
+from partpick.checks.limits import operating_limits  # noqa: E402
+from partpick.checks.sensitivity import sensitivities  # noqa: E402
+from partpick.checks.service import analyse_candidates, evaluate, run_check  # noqa: E402
 
 SERIES_REQ = dict(name="bench series", role="series", policy="commercial", supply_min_V=18.0, supply_max_V=32.0,
                   load_min_A=0.1, load_max_A=2.0, ambient_min_C=-40.0, ambient_max_C=85.0, min_output_V=16.5)
@@ -89,9 +94,13 @@ def _best_of(fn, repeat=7):
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--parts", type=int, default=10_000)
+    ap.add_argument("--limits-only", action="store_true", help="only the operating limits and sensitivity figures")
     args = ap.parse_args()
     parts = generate_parts(args.parts)
     print(f"library: {args.parts} generated parts")
+    _limits_and_sensitivity(parts)
+    if args.limits_only:
+        return
     for label, data in (("series", SERIES_REQ), ("zener_shunt", ZENER_REQ)):
         req = requirement_from_dict(data, f"bench {label}")
         evaluation = evaluate(req, parts)
@@ -107,6 +116,37 @@ def main() -> None:
                   f"CPU best {cpu*1e3:7.1f} ms")
     _example_library()
     _end_to_end(parts)
+
+
+def _example_parts() -> list[dict] | None:
+    csv_path = ROOT / "resources" / "example_library" / "parts.csv"
+    from partpick.library.store import open_library
+
+    with tempfile.TemporaryDirectory() as tmp:
+        with open_library(Path(tmp) / "example.sqlite", create=True) as lib:
+            lib.import_csv(csv_path)
+            return lib.list_parts()
+
+
+def _limits_and_sensitivity(generated: list[dict]) -> None:
+    """Operating limits + sensitivity of the 20 candidates shown (SPEC §9: ≤ 200 ms), each role."""
+    from partpick.checks.requirement import load_requirement
+
+    cases = [(f"generated {label}", requirement_from_dict(data, label), generated)
+             for label, data in (("series", SERIES_REQ), ("zener_shunt", ZENER_REQ))]
+    example = _example_parts()
+    cases += [(f"example {p.stem}", load_requirement(p), example)
+              for p in sorted((ROOT / "resources" / "requirements").glob("*.toml"))]
+    for label, req, parts in cases:
+        ev = evaluate(req, parts)
+        shown = ev.ranking.order[:20]
+        lim = _best_of(lambda: operating_limits(ev.role, req, ev.parts, ev.limits, ev.result, shown), 5)
+        sen = _best_of(lambda: sensitivities(ev.role, req, ev.parts, ev.limits, ev.result, shown, policy=ev.policy,
+                                             policy_named=ev.policy_named), 5)
+        both = _best_of(lambda: analyse_candidates(ev, shown), 5)
+        print(f"{label:40s} limits+sensitivity of {shown.size} shown: wall best {both[0]*1e3:6.1f} ms, median "
+              f"{both[1]*1e3:6.1f} ms (target ≤ 200 ms; limits {lim[0]*1e3:5.1f} ms, sensitivity "
+              f"{sen[0]*1e3:5.1f} ms); CPU best {both[2]*1e3:6.1f} ms")
 
 
 def _example_library() -> None:

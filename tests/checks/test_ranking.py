@@ -159,7 +159,8 @@ def test_result_has_the_contract_keys_and_plain_json():
     for key in ("partpick_version", "requirement", "policy", "library", "candidates", "subject_passed"):
         assert key in result
     cand = result["candidates"][0]
-    assert set(cand) == {"rank", "part_number", "kind", "package", "passed", "failed_checks", "checks", "metrics"}
+    assert set(cand) == {"rank", "part_number", "kind", "package", "passed", "failed_checks", "checks", "metrics",
+                         "operating_limits", "sensitivity"}
     for check in cand["checks"]:
         assert {"name", "value", "limit", "unit", "limit_source", "margin_pct", "passed", "corner"} <= set(check)
         assert set(check["corner"]) == {"supply_V", "load_A", "ambient_C", "state"}

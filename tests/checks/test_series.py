@@ -173,7 +173,7 @@ def test_missing_data_fails_data_missing_naming_the_fields(silicon_part):
     by_number = {c["part_number"]: c for c in result["candidates"]}
     lacking = by_number["TR-2"]
     checks = _by_name(lacking)
-    assert "pd_W or rth_ja_K_per_W" in checks["data_missing"]["reason"]
+    assert "pd_W rated at ambient or rth_ja_K_per_W" in checks["data_missing"]["reason"]
     assert "ir_A" in checks["data_missing"]["reason"] and "leakage" in checks["data_missing"]["reason"]
     assert checks["leakage"]["value"] is None and checks["leakage"]["reason"].startswith("not known: ")
     assert checks["reverse_voltage"]["passed"]  # what can be checked still is

@@ -42,9 +42,10 @@ def choose(qtbot, window, key: str, data: str) -> None:
 
 
 def settle(qtbot, window, timeout=5000):
-    """Wait for the debounced recheck to land."""
+    """Wait for the debounced recheck to land, and the operating limits of the shown candidates after it."""
     with qtbot.waitSignal(window.rechecker.checked, timeout=timeout):
         pass
+    qtbot.waitUntil(lambda: not window.limits.pending, timeout=timeout)
 
 
 def cli_json(library_path, toml, tmp_path, *extra) -> dict:
@@ -558,3 +559,29 @@ def test_long_shortlist_lists_the_clis_top_n(qtbot, window, library_path, tmp_pa
     assert window.status_label.text().startswith(
         f"{summary['passing']} of {summary['candidates']} parts pass · ")
     assert window.status_label.text().endswith("· first 10 listed")
+
+
+def test_operating_limits_panel_shows_the_clis_numbers(qtbot, window, library_path, tmp_path):
+    fill_series_24V(qtbot, window)
+    settle(qtbot, window)
+    expected = cli_json(library_path, SERIES_TOML, tmp_path)["candidates"]
+    window.shortlist.select_rows([1])
+    qtbot.waitUntil(lambda: window.bench.result.selected == [expected[1]["part_number"]])
+    panel = window.limits_panel
+    assert expected[1]["operating_limits"]["summary"] in panel.summary.text()
+    amb = expected[1]["metrics"]["max_ambient_C"]
+    from partpick.gui.widgets import format_value
+
+    assert panel.values["max_ambient_C"].text().startswith(format_value(amb, "°C"))
+    # The bar chart has one bar per sensitivity entry, the largest on top.
+    ticks = panel.plot.getPlotItem().getAxis("left")._tickLevels[0]
+    assert [label for _y, label in sorted(ticks, reverse=True)][0].startswith(expected[1]["sensitivity"][0]["input"])
+    # The optional shortlist column.
+    table = window.shortlist.table_model
+    panel.column_box.setChecked(True)
+    from PySide6.QtCore import Qt
+
+    assert table.headerData(6, Qt.Orientation.Horizontal) == "Max ambient"
+    assert table.data(table.index(0, 6)) == format_value(expected[0]["metrics"]["max_ambient_C"], "°C")
+    panel.column_box.setChecked(False)
+    assert table.headerData(6, Qt.Orientation.Horizontal) != "Max ambient"

@@ -50,7 +50,8 @@ def test_every_format_of_a_series_result(series_req):
     assert f"Check sheet: {top['part_number']}" in html
     for check in top["checks"]:
         assert html_lib.escape(check["limit_source"]) in html
-    assert html.count("data:image/png;base64,") == 4
+    assert html.count("data:image/png;base64,") == 4 + bool(top["sensitivity"])  # curves + the sensitivity chart
+    assert "<h3>Operating limits</h3>" in html and "<h3>What sets the worst case</h3>" in html
     pdf = render(result, "pdf", parts_by_number=BY_NUMBER, requirement=series_req)
     assert pdf.startswith(b"%PDF")
 

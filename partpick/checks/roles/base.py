@@ -15,7 +15,60 @@ import numpy as np
 
 from partpick.checks.results import CheckArray, PointTable
 
-__all__ = ["Role", "RoleResult"]
+__all__ = ["Role", "RoleResult", "Overrides"]
+
+
+def _or_requirement(given, value, count: int) -> np.ndarray:
+    if given is None:
+        return np.full(count, float(value))
+    given = np.asarray(given, dtype=float)
+    return np.where(np.isfinite(given), given, float(value))
+
+
+@dataclass
+class Overrides:
+    """Per-candidate values replacing the requirement's (operating limits, sensitivity).
+
+    Each array has shape (P,), one value per candidate; None (or NaN for one
+    candidate) keeps the requirement's value. A role that honours these can be bisected over all
+    candidates in one call (`partpick.checks.limits`).
+
+    Attributes
+    ----------
+    ambient_max_C : ndarray (P,), optional
+        The highest ambient [°C] (the corners' max end and every "hottest ambient" state).
+    load_max_A : ndarray (P,), optional
+        The highest load current [A].
+    thermal_resistance : ndarray (P,), optional
+        RthJA in use [K/W], replacing the part's, the design's or the mount's.
+    choices : dict of str to ndarray (P,)
+        The role's discrete choices held fixed (from `Role.choices` of a base result),
+        e.g. the chosen E-series resistor and its power class.
+    """
+
+    ambient_max_C: np.ndarray | None = None
+    load_max_A: np.ndarray | None = None
+    thermal_resistance: np.ndarray | None = None
+    choices: dict = field(default_factory=dict)
+
+    def ambient_max(self, requirement, count: int) -> np.ndarray:
+        """(P,) the highest ambient in force [°C]."""
+        return _or_requirement(self.ambient_max_C, requirement.ambient_max_C, count)
+
+    def load_max(self, requirement, count: int) -> np.ndarray:
+        """(P,) the highest load in force [A]."""
+        return _or_requirement(self.load_max_A, requirement.load_max_A, count)
+
+    def ambient_table(self, requirement, ambient_C, hot, count: int) -> np.ndarray:
+        """(P, K) ambients [°C] of K points whose ``hot`` ones (bool (K,)) sit at the highest ambient."""
+        table = np.broadcast_to(np.asarray(ambient_C, dtype=float), (count, len(ambient_C))).copy()
+        if self.ambient_max_C is not None:
+            table[:, np.asarray(hot, dtype=bool)] = self.ambient_max(requirement, count)[:, None]
+        return table
+
+    def choice(self, name: str, default):
+        """A held discrete choice (P,), or ``default`` where the base check is being made."""
+        return self.choices.get(name, default)
 
 
 @dataclass
@@ -64,6 +117,11 @@ class Role:
     kinds: tuple[str, ...] = ()
     objective_metrics: dict[str, str] = {}
     supports_yield: bool = False
+    #: Part columns that enter the role's checks (the inputs of "what sets the worst case").
+    part_inputs: tuple[str, ...] = ()
+    #: Which operating limits apply (`partpick.checks.limits`): the highest ambient, the highest load,
+    #: the largest thermal resistance. A role without a load or without steady heating lists fewer.
+    limit_searches: tuple[str, ...] = ("ambient", "load", "thermal")
     #: The common requirement keys this role needs besides name, role and the ambient range.
     required_keys: tuple[str, ...] = ("supply_min_V", "supply_max_V", "load_min_A", "load_max_A")
     #: Common keys this role does not use → the hint shown when a file gives one (SPEC §4a).
@@ -87,6 +145,10 @@ class Role:
     def considers(self, kind: str) -> bool:
         return kind in self.kinds
 
+    def choices(self, result: RoleResult) -> dict:
+        """The discrete choices of a base result to hold fixed in `Overrides` (none by default)."""
+        return {}
+
     def form_group(self):
         """The role's group of the requirement form (`partpick.checks.role_table.FormGroup`), or None."""
         return self.table.form_group(self.name) if self.table is not None else None
@@ -102,7 +164,8 @@ class Role:
         """The role's curve sections of one part (see `partpick.checks.curves`); {} for none."""
         return {}
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:  # pragma: no cover - interface
+    def evaluate(self, requirement, parts, limits,
+                 overrides: Overrides | None = None) -> RoleResult:  # pragma: no cover - interface
         """Evaluate every candidate at every point.
 
         Parameters
@@ -112,6 +175,9 @@ class Role:
             The candidates (all of kinds this role considers).
         limits : dict
             `partpick.checks.policy.resolve_limits` output (group → key → ResolvedLimit).
+        overrides : Overrides, optional
+            Per-candidate ambient max, load max, RthJA in use and held choices; the
+            `PointTable` still names the requirement's corners.
         """
         raise NotImplementedError
 

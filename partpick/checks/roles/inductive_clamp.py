@@ -22,14 +22,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_needs as thermal_needs_of, tj_limit
 from partpick.checks.role_table import RoleTable, TableKey
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
-from partpick.checks.roles.base import Role, RoleResult
+from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.checks.roles.series import forward_model_of
 from partpick.physics.coil import DiodeDrop, coil_decay, coil_resistance, periodic_state, pulse_temperature_rise
 from partpick.physics.constants import ZERO_CELSIUS_K
-from partpick.physics.thermal import allowed_power, derated_current
+from partpick.physics.thermal import derated_current
 
 __all__ = ["InductiveClampRole", "ROLE", "COIL_TABLE", "RECOVERY_SHARE"]
 
@@ -132,6 +132,9 @@ class InductiveClampRole(Role):
     label = "Coil clamp"
     kinds = ("rectifier", "signal", "schottky", "fast_recovery")
     objective_metrics = {"drop": "release_time_s", "dissipation": "dissipation_W"}
+    part_inputs = ("is_A", "n", "rs_ohm", "vf_max_V", "vrrm_V", "ifsm_A", "ifrm_A", "if_avg_A", "tj_max_C",
+                   "pd_W", "rth_ja_K_per_W", "tau_th_s", "trr_s", "qrr_C")
+    limit_searches = ("ambient", "thermal")  # no load current: the coil sets it
     required_keys = ("supply_min_V", "supply_max_V")
     unused_keys = _NOT_USED
     table = COIL_TABLE
@@ -192,8 +195,9 @@ class InductiveClampRole(Role):
 
         return coil_sections(requirement, part, candidate, notes)
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:
+    def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
+        ov = overrides or Overrides()
         coil = req.table("coil")
         repetitive = coil.switching_hz > 0
         with_zener = coil.clamp == "diode_zener"
@@ -208,7 +212,8 @@ class InductiveClampRole(Role):
         points = PointTable(supply_V=supply, load_A=None, ambient_C=ambient_C, state=("turn_off",) * K,
                             extra=(("zener_end", end_of),) if with_zener else ())
         ids = np.arange(K)
-        ambient_K = ambient_C + ZERO_CELSIUS_K  # °C → K at the physics boundary
+        hot = np.array([a for _, a, _ in itertools.product(range(2), range(2), range(len(ends)))]) == 1
+        ambient_K = ov.ambient_table(req, ambient_C, hot, count) + ZERO_CELSIUS_K  # °C → K, (P, K)
         if with_zener:
             sign = np.array([-1.0 if e == "low" else 1.0 for e in end_of])
             vz = coil.zener_V * (1.0 + sign * coil.zener_tol_pct / 100.0)
@@ -217,8 +222,7 @@ class InductiveClampRole(Role):
 
         # ---- what each check needs ----------------------------------------------------
         needs = Needs(parts)
-        thermal_needs = [("tj_max_C",)] if req.rth_ja_K_per_W is not None else [("tj_max_C",),
-                                                                                   ("pd_W", "rth_ja_K_per_W")]
+        thermal_needs = thermal_needs_of(req)
         model_needs = [(f,) for f in _MODEL_FIELDS]
         needs.require("reverse_voltage", "vrrm_V")
         if repetitive:
@@ -237,7 +241,7 @@ class InductiveClampRole(Role):
         for (f,) in model_needs:
             model_bad |= ~parts.known(f)
 
-        thermal = thermal_data(parts, req.rth_ja_K_per_W)
+        thermal = thermal_data(parts, req, ov.thermal_resistance)
         rth = thermal.thermal_resistance
         tj_max_K = thermal.tj_max_K
         tj_max_C = tj_max_K - ZERO_CELSIUS_K
@@ -245,8 +249,8 @@ class InductiveClampRole(Role):
 
         # ---- the turn-off at every point --------------------------------------------
         _, model = forward_model_of(parts)
-        drop = DiodeDrop.from_model(model, np.broadcast_to(ambient_K[None, :], (count, K)))
-        off = _turn_off(coil, supply[None, :], ambient_K[None, :], vz[None, :], drop)
+        drop = DiodeDrop.from_model(model, ambient_K)
+        off = _turn_off(coil, supply[None, :], ambient_K, vz[None, :], drop)
         f = coil.switching_hz
         if repetitive:
             diode_power = off.diode_energy * f
@@ -261,7 +265,7 @@ class InductiveClampRole(Role):
         tau = parts.value("tau_th_s", 0.0)[:, None]
         rise = pulse_temperature_rise(pulse_power, pulse_time, rth[:, None], tau)
         steady_rise = diode_power * rth[:, None] if repetitive else 0.0
-        tj_K = ambient_K[None, :] + steady_rise + rise
+        tj_K = ambient_K + steady_rise + rise
         mask = model_bad[:, None]
         nanify = lambda a: np.where(mask, np.nan, a)  # noqa: E731
 
@@ -284,7 +288,7 @@ class InductiveClampRole(Role):
             # Repetitive: the peak against IFRM where rated; else the average against the derated IF(AV).
             ifrm = parts.raw["ifrm_A"]
             rated = np.isfinite(ifrm)
-            if_derated = derated_current(np.broadcast_to(ambient_K[None, :], (count, K)),
+            if_derated = derated_current(ambient_K,
                                          parts.value("if_avg_A", 1.0)[:, None], tj_max_K[:, None],
                                          np.minimum(parts.value("if_ref_C") + ZERO_CELSIUS_K, tj_max_K - 1.0)[:, None])
             value = np.where(rated[:, None], off.current, diode_average)
@@ -318,8 +322,7 @@ class InductiveClampRole(Role):
         tj_lim, tj_src = tj_limit(limits, groups, tj_max_C)
         if repetitive:
             pow_pct, pow_src = limit_array(limits, groups, "power_pct")
-            p_allowed = allowed_power(np.broadcast_to(ambient_K[None, :], (count, K)), thermal.power_rating[:, None],
-                                      tj_max_K[:, None], thermal.pd_ref_K[:, None])
+            p_allowed = thermal.allowed_power(ambient_K)
             with np.errstate(divide="ignore", invalid="ignore"):
                 ratio = np.where(p_allowed > 0, 100.0 * diode_power / np.where(p_allowed > 0, p_allowed, 1.0),
                                  np.inf)

@@ -19,13 +19,13 @@ from __future__ import annotations
 import numpy as np
 
 from partpick.checks.corners import corners_of
-from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_needs as thermal_needs_of, tj_limit
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
-from partpick.checks.roles.base import Role, RoleResult
+from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.junction import ForwardModel
 from partpick.physics.leakage import reverse_current
-from partpick.physics.thermal import allowed_power, derated_current, reverse_thermal_state, self_heated_forward
+from partpick.physics.thermal import derated_current, reverse_thermal_state, self_heated_forward
 
 __all__ = ["SeriesRole", "ROLE", "forward_model_of"]
 
@@ -54,6 +54,9 @@ class SeriesRole(Role):
     label = "Series diode"
     kinds = ("rectifier", "signal", "schottky", "fast_recovery")
     objective_metrics = {"drop": "forward_drop_V", "dissipation": "dissipation_W"}
+    part_inputs = ("is_A", "n", "rs_ohm", "eg_eV", "is_temp_exponent", "rs_temp_exponent", "vf_max_V", "vrrm_V",
+                   "if_avg_A", "if_ref_C", "pd_W", "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "rth_jc_K_per_W",
+                   "rth_jl_K_per_W", "rth_ja_large_K_per_W", "ir_A", "ir_vr_V", "ir_t_C", "ir_double_K", "ifsm_A")
     curve_plots = (("forward", "I–V", {}), ("forward", "I–V (log)", {"log_y": True}),
                    ("junction_temperature", "Junction temperature", {"legend": "bottom_right"}),
                    ("power", "Power", {"legend": "top_right"}))
@@ -63,19 +66,19 @@ class SeriesRole(Role):
 
         return series_curves(requirement, part, candidate, notes)
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:
+    def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
+        ov = overrides or Overrides()
         count = parts.count
         corners = corners_of(req)
         C = len(corners)
-        ambient_K = corners.ambient_C + ZERO_CELSIUS_K  # °C → K at the physics boundary
-        load = corners.load_A
+        ambient_C, load_A = corners.for_parts(count, ov)
         reverse_V = req.reverse_voltage
         hot_C = req.ambient_max_C
-        hot_K = hot_C + ZERO_CELSIUS_K
+        hot_K = ov.ambient_max(req, count) + ZERO_CELSIUS_K  # °C → K at the physics boundary
         points = PointTable(
             supply_V=np.concatenate([corners.supply_V, corners.supply_V, [reverse_V]]),
-            load_A=np.concatenate([load, load, [0.0]]),
+            load_A=np.concatenate([corners.load_A, corners.load_A, [0.0]]),
             ambient_C=np.concatenate([corners.ambient_C, corners.ambient_C, [hot_C]]),
             state=("cold_start",) * C + ("steady",) * C + ("reverse",),
         )
@@ -85,8 +88,7 @@ class SeriesRole(Role):
 
         # ---- what each check needs --------------------------------------------------
         needs = Needs(parts)
-        thermal_needs = [("tj_max_C",)] if req.rth_ja_K_per_W is not None else [("tj_max_C",),
-                                                                                   ("pd_W", "rth_ja_K_per_W")]
+        thermal_needs = thermal_needs_of(req)
         forward_needs = [(f,) for f in _MODEL_FIELDS] + thermal_needs
         reverse_needs = [("ir_A",), ("ir_vr_V",)] + thermal_needs
         if req.max_forward_drop_V is not None:
@@ -110,7 +112,7 @@ class SeriesRole(Role):
         for f in reverse_needs:
             reverse_bad |= ~np.logical_or.reduce([parts.known(x) for x in f])
 
-        thermal = thermal_data(parts, req.rth_ja_K_per_W)
+        thermal = thermal_data(parts, req, ov.thermal_resistance)
         rth = thermal.thermal_resistance
         tj_max_K = thermal.tj_max_K
         tj_max_C = tj_max_K - ZERO_CELSIUS_K
@@ -118,8 +120,8 @@ class SeriesRole(Role):
 
         # ---- forward state ------------------------------------------------------------
         typical, model = forward_model_of(parts)
-        I = np.broadcast_to(load[None, :], (count, C))
-        Ta = np.broadcast_to(ambient_K[None, :], (count, C))
+        I = load_A
+        Ta = ambient_C + ZERO_CELSIUS_K  # °C → K at the physics boundary
         v_cold = model.voltage(I, Ta)
         op = self_heated_forward(model, I, Ta, rth[:, None])
         runaway = np.asarray(op.runaway, dtype=bool)
@@ -180,7 +182,8 @@ class SeriesRole(Role):
         # forward_current: the load at each corner against IF(AV) derated at its ambient × limit.
         cur_pct, cur_src = limit_array(limits, groups, "current_pct")
         if_ref_K = np.minimum(parts.value("if_ref_C") + ZERO_CELSIUS_K, tj_max_K - 1.0)
-        if_derated = derated_current(Ta, parts.value("if_avg_A", 1.0)[:, None], tj_max_K[:, None],
+        rating_K = thermal.rating_temperature(parts, Ta, tj_steady_K, p_steady)  # SPEC §3a if_ref_point
+        if_derated = derated_current(rating_K, parts.value("if_avg_A", 1.0)[:, None], tj_max_K[:, None],
                                      if_ref_K[:, None])
         cur_source = object_array([f"{cur_src[g]}: {v:g} % of IF(AV) derated at Ta" for g, v in
                                    enumerate(_group_values(limits, "current_pct"))])[groups]
@@ -191,7 +194,7 @@ class SeriesRole(Role):
 
         # power: at each corner the ratio P/Pallow(Ta) in %, against the policy's %; the worst ratio is reported.
         pow_pct, pow_src = limit_array(limits, groups, "power_pct")
-        p_allowed = allowed_power(Ta, thermal.power_rating[:, None], tj_max_K[:, None], thermal.pd_ref_K[:, None])
+        p_allowed = thermal.allowed_power(Ta)
         with np.errstate(divide="ignore", invalid="ignore"):
             ratio = np.where(p_allowed > 0, 100.0 * p_steady / np.where(p_allowed > 0, p_allowed, 1.0),
                              np.where(p_steady > 0, np.inf, 0.0))
@@ -212,6 +215,7 @@ class SeriesRole(Role):
             "junction_temp", "°C", tj_all_C, tj_lim, np.concatenate([steady_ids, [reverse_id]]), "max", tj_src,
             reasons=with_missing("junction_temp", forward_reasons + reverse_reasons),
             invalid=needs.missing("junction_temp")))
+        checks[-1].note = thermal.notes  # the thermal path's assumptions (SPEC §3a)
 
         # reverse_runaway: a stable reverse-state Tj must exist below Tj max.
         checks.append(worst_case_check(
@@ -263,9 +267,9 @@ class SeriesRole(Role):
         # Hand model: tangent at load_max_A at the Tj of the worst-drop corner (cold: Ta; steady: solved Tj).
         corner_of = drop_col % C
         rows = np.arange(count)
-        tj_hand_K = np.where(drop_col < C, ambient_K[corner_of], tj_steady_K[rows, corner_of])
+        tj_hand_K = np.where(drop_col < C, Ta[rows, corner_of], tj_steady_K[rows, corner_of])
         hand_ok = np.isfinite(drop) & np.isfinite(tj_hand_K)
-        vth0, ron = model.tangent(req.load_max_A, np.where(hand_ok, tj_hand_K, ambient_K[0])[:, None])
+        vth0, ron = model.tangent(ov.load_max(req, count)[:, None], np.where(hand_ok, tj_hand_K, Ta[:, 0])[:, None])
         vth0 = np.where(hand_ok, np.ravel(vth0), np.nan)
         ron = np.where(hand_ok, np.ravel(ron), np.nan)
         leak_metric = np.where(reverse_bad, np.nan, leakage)
@@ -301,7 +305,7 @@ class SeriesRole(Role):
             "tj_limit_C": tj_lim, "hand_model_tj_C": tj_hand_K - ZERO_CELSIUS_K,
             "forward_bad": forward_bad, "reverse_bad": reverse_bad,
             "cold_voltage_V": v_cold, "steady_voltage_V": v_steady, "steady_tj_C": tj_steady_K - ZERO_CELSIUS_K,
-            "reverse_tj_C": tj_rev_K - ZERO_CELSIUS_K,
+            "reverse_tj_C": tj_rev_K - ZERO_CELSIUS_K, "thermal_path_note": thermal.notes,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
 

@@ -22,7 +22,7 @@ import numpy as np
 from partpick.checks.partdata import Needs, limit_array
 from partpick.checks.role_table import RoleTable, TableKey
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
-from partpick.checks.roles.base import Role, RoleResult
+from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.library.fields import parse_waveform
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.leakage import reverse_current
@@ -122,6 +122,9 @@ class TvsClampRole(Role):
     label = "Surge clamp"
     kinds = ("tvs",)
     objective_metrics = {"drop": "clamp_voltage_V", "dissipation": "pulse_stress_pct"}
+    part_inputs = ("vwm_V", "vbr_min_V", "vbr_max_V", "vc_V", "ipp_A", "it_A", "ppp_W", "ppp2_W",
+                   "vbr_tc_pct_per_K", "tj_max_C", "ir_A", "ir_vr_V")
+    limit_searches = ("ambient",)  # no load current and no steady heating: the pulse rating is derated
     required_keys = ()
     unused_keys = _NOT_USED
     table = SURGE_TABLE
@@ -166,8 +169,9 @@ class TvsClampRole(Role):
 
         return tvs_sections(requirement, part, candidate, notes)
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:
+    def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
+        ov = overrides or Overrides()
         surge = req.table("surge")
         count = parts.count
         combos = list(itertools.product((req.ambient_min_C, req.ambient_max_C), _ENDS))
@@ -180,7 +184,8 @@ class TvsClampRole(Role):
         low = np.array([e == "low" for e in end_of])
         cold = ambient_C == req.ambient_min_C
         hot = ambient_C == req.ambient_max_C
-        ambient_K = ambient_C + ZERO_CELSIUS_K  # °C → K at the physics boundary
+        hot_end = np.array([a for a, _ in itertools.product(range(2), range(len(_ENDS)))]) == 1
+        ambient_K = ov.ambient_table(req, ambient_C, hot_end, count) + ZERO_CELSIUS_K  # °C → K, (P, K)
 
         needs = Needs(parts)
         needs.require("standoff", "vwm_V")
@@ -202,7 +207,7 @@ class TvsClampRole(Role):
         tc = np.where(tc_known, parts.raw["vbr_tc_pct_per_K"], DEFAULT_VBR_TC_PCT_PER_K)
 
         vbr_end = np.where(low[None, :], vbr_min[:, None], vbr_max[:, None])
-        op = _surge(surge, vbr_end, tc[:, None], rd[:, None], ambient_K[None, :])
+        op = _surge(surge, vbr_end, tc[:, None], rd[:, None], ambient_K)
         mask = line_bad[:, None]
         nanify = lambda a: np.where(mask, np.nan, a)  # noqa: E731
 
@@ -216,7 +221,7 @@ class TvsClampRole(Role):
         tj_max_K = parts.value("tj_max_C", 150.0) + ZERO_CELSIUS_K
         tj_max_K = np.maximum(tj_max_K, ZERO_CELSIUS_K + 26.0)
         out_of_range = np.isnan(moved)
-        rating = derated_pulse_rating(np.where(out_of_range, 0.0, moved)[:, None], ambient_K[None, :],
+        rating = derated_pulse_rating(np.where(out_of_range, 0.0, moved)[:, None], ambient_K,
                                       tj_max_K[:, None])
         rating = np.where(out_of_range[:, None], np.nan, rating)
 
@@ -267,7 +272,7 @@ class TvsClampRole(Role):
 
         # Leakage at the line maximum and the hottest ambient (a metric always, a check when a limit is given).
         lacking = ~(known("ir_A") & known("ir_vr_V"))
-        hot_K = req.ambient_max_C + ZERO_CELSIUS_K
+        hot_K = ov.ambient_max(req, count) + ZERO_CELSIUS_K
         leak = reverse_current(parts.value("ir_A", 1e-6), parts.value("ir_vr_V", 1.0),
                                parts.value("ir_t_C") + ZERO_CELSIUS_K, surge.line_max_V, hot_K,
                                parts.value("ir_double_K"))

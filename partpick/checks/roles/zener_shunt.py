@@ -23,12 +23,11 @@ import itertools
 import numpy as np
 
 from partpick.checks.corners import corners_of
-from partpick.checks.partdata import Needs, limit_array, thermal_data, tj_limit
+from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_needs as thermal_needs_of, tj_limit
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
-from partpick.checks.roles.base import Role, RoleResult
+from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.physics.constants import T0_K, ZERO_CELSIUS_K
 from partpick.physics.eseries import RESISTOR_POWER_CLASSES_W, largest_at_most, smallest_power_class
-from partpick.physics.thermal import allowed_power
 from partpick.physics.zener import ZenerModel, solve_shunt
 
 __all__ = ["ZenerShuntRole", "ROLE", "zener_models_of", "choose_resistor"]
@@ -112,9 +111,19 @@ class ZenerShuntRole(Role):
 
         return zener_shunt_curves(requirement, part, candidate, notes)
     supports_yield = True
+    part_inputs = ("vz_V", "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K", "pd_W",
+                   "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "rth_jc_K_per_W", "rth_ja_large_K_per_W")
 
-    def evaluate(self, requirement, parts, limits) -> RoleResult:
+    def choices(self, result: RoleResult) -> dict:
+        """The chosen E-series resistor and its power class, held fixed for limits and sensitivity."""
+        held = {"resistor_class_W": result.metrics["resistor_power_class_W"]}
+        if result.internals["resistor_chosen"].any():  # a resistor given by the requirement is an input
+            held["resistor_ohm"] = result.internals["resistor_ohm"]
+        return held
+
+    def evaluate(self, requirement, parts, limits, overrides: Overrides | None = None) -> RoleResult:
         req = requirement
+        ov = overrides or Overrides()
         zr = req.zener
         count = parts.count
         corners = corners_of(req)
@@ -130,8 +139,7 @@ class ZenerShuntRole(Role):
         ids = np.arange(len(combos))
 
         needs = Needs(parts)
-        thermal_needs = [("tj_max_C",)] if req.rth_ja_K_per_W is not None else [("tj_max_C",),
-                                                                                   ("pd_W", "rth_ja_K_per_W")]
+        thermal_needs = thermal_needs_of(req)
         zener_needs = [("vz_V",), ("vz_tol_pct",), ("izt_A",), ("zzt_ohm",)] + thermal_needs
         iz_min_needs = [] if zr.min_zener_current_A is not None else [("izk_A",)]
         for check in ("feasible", "zener_current_min", "zener_power", "junction_temp", "regulation_error",
@@ -139,7 +147,7 @@ class ZenerShuntRole(Role):
             needs.require(check, *zener_needs, *iz_min_needs)
         bad = needs.any_missing()
 
-        thermal = thermal_data(parts, req.rth_ja_K_per_W)
+        thermal = thermal_data(parts, req, ov.thermal_resistance)
         rth = thermal.thermal_resistance
         tj_max_K = thermal.tj_max_K
         tj_max_C = tj_max_K - ZERO_CELSIUS_K
@@ -154,11 +162,12 @@ class ZenerShuntRole(Role):
             iz_min_source = "part izk_A (Iz min defaults to the knee current)"
 
         tolerance_pct = zr.resistor_tolerance
-        if zr.resistor_ohm is not None:
-            resistance = np.full(count, zr.resistor_ohm)
+        if "resistor_ohm" in ov.choices or zr.resistor_ohm is not None:
+            resistance = np.asarray(ov.choice("resistor_ohm", np.full(count, zr.resistor_ohm)), dtype=float)
             _, vz_high, vz_high_ambient = choose_resistor(req, high, iz_min, rth, tolerance_pct=tolerance_pct,
                                                           series=zr.resistor_series)
-            resistor_source = "requirement [zener].resistor_ohm"
+            resistor_source = ("requirement [zener].resistor_ohm" if zr.resistor_ohm is not None
+                               else f"largest {zr.resistor_series} value keeping Iz ≥ Iz min")
         else:
             resistance, vz_high, vz_high_ambient = choose_resistor(req, high, iz_min, rth,
                                                                    tolerance_pct=tolerance_pct,
@@ -168,14 +177,16 @@ class ZenerShuntRole(Role):
         # No operating points where data are missing, or where no resistor could be chosen; a given
         # resistor (review mode) is solved even when the supply cannot keep the Zener regulating.
         unsolved = bad | (~feasible if zr.resistor_ohm is None else np.zeros(count, dtype=bool))
+        unsolved |= ~np.isfinite(resistance)  # a held choice of a part that had none
         infeasible_text = (f"supply too low for this Vz at max load: at {req.supply_min_V:g} V and "
                            f"{req.load_max_A:g} A no resistor keeps Iz at or above Iz min, because the "
                            "highest Zener voltage at Iz min (the check's limit) is not below the supply")
 
         # ---- solve every corner × Vz end × R end ----------------------------------------
         supply = points.supply_V[None, :]
-        load = points.load_A[None, :]
-        ambient_K = points.ambient_C[None, :] + ZERO_CELSIUS_K  # °C → K at the physics boundary
+        ambient_C, load_A = corners.for_parts(count, ov)
+        load = load_A[:, corner_idx]
+        ambient_K = ambient_C[:, corner_idx] + ZERO_CELSIUS_K  # °C → K at the physics boundary
         r_nominal = np.where(unsolved, 1000.0, resistance)
         r_factor = np.where(r_end == 1, 1 + tolerance_pct / 100.0, 1 - tolerance_pct / 100.0)
         R = r_nominal[:, None] * r_factor[None, :]
@@ -190,7 +201,7 @@ class ZenerShuntRole(Role):
                                test_impedance=low.test_impedance[solved], knee_current=low.knee_current[solved],
                                knee_impedance=low.knee_impedance[solved],
                                temperature_coefficient=low.temperature_coefficient[solved])
-            shunt = solve_shunt(model, supply, R[solved], load, ambient_K, rth[solved, None])
+            shunt = solve_shunt(model, supply, R[solved], load[solved], ambient_K[solved], rth[solved, None])
             vout[solved] = shunt.output_voltage
             iz[solved] = shunt.zener_current
             tj_C[solved] = shunt.junction_temperature - ZERO_CELSIUS_K
@@ -220,8 +231,7 @@ class ZenerShuntRole(Role):
             "zener_current_min", "A", iz, iz_min, ids, "min", iz_min_source, reasons=unsolved_reasons,
             invalid=unsolved))
         pow_pct, pow_src = limit_array(limits, groups, "power_pct")
-        p_allowed = allowed_power(ambient_K, thermal.power_rating[:, None], tj_max_K[:, None],
-                                  thermal.pd_ref_K[:, None])
+        p_allowed = thermal.allowed_power(ambient_K)
         pow_source = object_array([f"{pow_src[g]}: {limits[n]['power_pct'].value:g} % of Pallow(Ta)"
                                    for g, n in enumerate(("pn", "schottky", "zener"))])[groups]
         checks.append(worst_case_check(
@@ -230,6 +240,7 @@ class ZenerShuntRole(Role):
         tj_lim, tj_src = tj_limit(limits, groups, tj_max_C)
         checks.append(worst_case_check(
             "junction_temp", "°C", tj_C, tj_lim, ids, "max", tj_src, reasons=unsolved_reasons, invalid=unsolved))
+        checks[-1].note = thermal.notes  # the thermal path's assumptions (SPEC §3a)
         checks.append(worst_case_check(
             "regulation_error", "%", error, np.full(count, zr.max_regulation_error_pct), ids, "max",
             "requirement [zener].max_regulation_error_pct", reasons=unsolved_reasons, invalid=unsolved))
@@ -243,6 +254,7 @@ class ZenerShuntRole(Role):
             sel = fraction == value
             klass[sel] = smallest_power_class(np.where(np.isfinite(p_res_max[sel]), p_res_max[sel], 0.0), value)
         klass = np.where(np.isfinite(p_res_max), klass, np.nan)
+        klass = np.asarray(ov.choice("resistor_class_W", klass), dtype=float)  # held fixed for limits
         rated = np.where(np.isfinite(klass), klass, RESISTOR_POWER_CLASSES_W[-1]) * fraction
         rated = np.where(unsolved, np.nan, rated)
         class_index = np.where(np.isfinite(klass), np.searchsorted(RESISTOR_POWER_CLASSES_W, klass), 
@@ -305,8 +317,9 @@ class ZenerShuntRole(Role):
             "iz_min_A": iz_min, "vz_high_at_iz_min_V": vz_high, "vz_high_ambient_C": vz_high_ambient,
             "resistor_ohm": resistance, "resistor_tolerance_pct": np.full(count, tolerance_pct),
             "resistor_source": object_array(resistor_source, count),
+            "resistor_chosen": np.full(count, zr.resistor_ohm is None),
             "rth_ja_K_per_W": rth, "pd_W": thermal.power_rating, "tj_max_C": tj_max_C, "tj_limit_C": tj_lim,
-            "feasible": feasible, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
+            "feasible": feasible, "thermal_path_note": thermal.notes, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
 
