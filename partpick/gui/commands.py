@@ -472,8 +472,8 @@ def export_curves(bench: Workbench) -> None:
     if not path:
         return
     try:
-        target = bench.output_target(path)  # never the library or the requirement file
-        bench.prompt.export_curves(str(target.resolved))  # written through partpick.outputs
+        bench.output_target(path)  # refused first when it is the library, a database or the requirement file
+        bench.prompt.export_curves(path)  # the image is written through partpick.outputs (plots.export)
     except (InputError, OSError, RuntimeError) as exc:
         bench.prompt.show_error("Save curves image", f"No image written: {exc}")
 
