@@ -16,7 +16,9 @@ from quantiphy import Quantity, QuantiPhyError
 
 from partpick.errors import InputError
 
-__all__ = ["parse_quantity", "format_quantity"]
+__all__ = ["parse_quantity", "format_quantity", "format_engineering"]
+
+_ENGINEERING_PREFIXES = {-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}
 
 # A number, an optional SI prefix (quantiphy's set, with 'u' and the micro
 # signs), an optional unit of letters/Ω.  Anything else is refused before
@@ -66,6 +68,9 @@ def parse_quantity(text: str | float | int, unit: str = "", *, name: str = "valu
     raw = str(text).strip()
     if not raw:
         raise InputError(f"{name}: empty entry, a number is needed")
+    # The typographic minus (U+2212) is what partpick itself writes ("−40 °C"); so is a thin or
+    # no-break space between number and unit. Read them as the ASCII minus and a space.
+    raw = raw.replace("\u2212", "-").replace("\u2009", " ").replace("\u00a0", " ").replace("\u202f", " ")
     match = _SHAPE.match(raw)
     if match is None:
         raise InputError(f"{name}: {raw!r} is not a number in engineering notation (e.g. 4.7k, 10 mA, 1e-14)")
@@ -108,3 +113,36 @@ def format_quantity(value: float | None, unit: str = "", *, digits: int = 4) -> 
     if value == 0:
         return f"0 {unit}".strip()
     return Quantity(value, unit).render(prec=digits - 1, strip_zeros=True)
+
+
+def format_engineering(value, unit: str = "", digits: int = 3) -> str:
+    """``value`` in engineering notation with an SI prefix: 0.0123, "A" → "12.3 mA".
+
+    Keeps ``digits`` significant digits (trailing zeros kept, as on a
+    datasheet), uses the typographic minus and µ. ``None`` gives "—"; a
+    non-finite value raises ValueError (it must never be shown as a result).
+    """
+    if value is None:
+        return "—"
+    value = float(value)
+    if not math.isfinite(value):
+        raise ValueError(f"format_engineering: {value!r} is not a finite number")
+    sign = "−" if value < 0 else ""
+    magnitude = abs(value)
+    if magnitude == 0:
+        return f"0 {unit}".rstrip()
+    if unit in ("°C", "K", "K/W") or unit.startswith("%"):
+        # Temperatures and ratios read without prefixes.
+        text = f"{magnitude:#.{digits}g}".rstrip(".")
+        if "e" in text:
+            text = f"{magnitude:.{digits - 1}e}"
+        return f"{sign}{text} {unit}".rstrip()
+    exponent = int(math.floor(math.log10(magnitude) / 3.0) * 3)
+    exponent = max(min(exponent, 9), -15)
+    mantissa = magnitude / 10.0**exponent
+    text = f"{mantissa:#.{digits}g}"
+    if float(text) >= 1000.0 and exponent < 9:  # rounding carried into the next prefix
+        exponent += 3
+        text = f"{magnitude / 10.0**exponent:#.{digits}g}"
+    text = text.rstrip(".")
+    return f"{sign}{text} {_ENGINEERING_PREFIXES[exponent]}{unit}".rstrip()

@@ -73,3 +73,27 @@ def test_library_fields_module_is_free_of_sqlalchemy():
         pytest.skip("partpick.library.fields not present")
     loaded = _loaded_after_import(["partpick.library.fields"])
     assert not [m for m in loaded if m.startswith("sqlalchemy")]
+
+
+def test_the_window_never_imports_the_command_line():
+    """SPEC §2: gui/ sits beside cli/, over the same services; neither reaches into the other."""
+    for path in (PACKAGE_DIR / "gui").glob("*.py"):
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        for node in ast.walk(tree):
+            if isinstance(node, ast.ImportFrom):
+                names = [node.module or ""]
+            elif isinstance(node, ast.Import):
+                names = [alias.name for alias in node.names]
+            else:
+                continue
+            assert not any(n == "partpick.cli" or n.startswith("partpick.cli.") for n in names), \
+                f"gui/{path.name} imports {names}"
+
+
+def test_number_formatting_lives_with_the_units():
+    """format_engineering belongs to partpick.units; the checker's curves re-export it for old callers."""
+    from partpick.checks import curves
+    from partpick import units
+
+    assert curves.format_engineering is units.format_engineering
+    assert units.format_engineering(0.0123, "A") == "12.3 mA"  # 12.3 × 10⁻³ A, by hand

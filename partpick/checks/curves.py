@@ -35,6 +35,7 @@ from partpick.physics.junction import (
     ForwardModel,
 )
 from partpick.physics.thermal import allowed_power
+from partpick.units import format_engineering
 
 __all__ = ["curves_for", "format_engineering", "corner_label", "AMBIENT_EXTENSION_K",
            "COMMON_SECTIONS", "CURVE_POINTS", "number", "record_forward_model", "record_thermal", "check_of",
@@ -48,41 +49,9 @@ CURVE_POINTS = 241
 
 COMMON_SECTIONS = ("forward", "breakdown", "zener_output", "junction_temperature", "power")
 """Sections every result carries (None where the role gives none), so readers need not test for keys."""
-_PREFIXES = {-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}
 
 
-# --- formatting shared with plots and report ----------------------------------------------------
-def format_engineering(value, unit: str = "", digits: int = 3) -> str:
-    """``value`` in engineering notation with an SI prefix: 0.0123, "A" → "12.3 mA".
-
-    Keeps ``digits`` significant digits (trailing zeros kept, as on a
-    datasheet), uses the typographic minus and µ. ``None`` gives "—"; a
-    non-finite value raises ValueError (it must never be shown as a result).
-    """
-    if value is None:
-        return "—"
-    value = float(value)
-    if not math.isfinite(value):
-        raise ValueError(f"format_engineering: {value!r} is not a finite number")
-    sign = "−" if value < 0 else ""
-    magnitude = abs(value)
-    if magnitude == 0:
-        return f"0 {unit}".rstrip()
-    if unit in ("°C", "K", "K/W", "°") or unit.startswith("%"):
-        # Temperatures and ratios read without prefixes.
-        text = f"{magnitude:#.{digits}g}".rstrip(".")
-        if "e" in text:
-            text = f"{magnitude:.{digits - 1}e}"
-        return f"{sign}{text} {unit}".rstrip()
-    exponent = int(math.floor(math.log10(magnitude) / 3.0) * 3)
-    exponent = max(min(exponent, 9), -15)
-    mantissa = magnitude / 10.0**exponent
-    text = f"{mantissa:#.{digits}g}"
-    if float(text) >= 1000.0 and exponent < 9:  # rounding carried into the next prefix
-        exponent += 3
-        text = f"{magnitude / 10.0**exponent:#.{digits}g}"
-    text = text.rstrip(".")
-    return f"{sign}{text} {_PREFIXES[exponent]}{unit}".rstrip()
+# --- formatting shared with plots and report (the formatter itself lives in partpick.units) ----------
 
 
 def corner_label(supply_V=None, load_A=None, ambient_C=None, state=None) -> str:

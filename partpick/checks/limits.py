@@ -149,7 +149,8 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
              "load": lambda j: "fails even with no load",
              "thermal": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
     ends = {"ambient": lambda j: "holds up to Tj max (the search's end)",
-            "load": lambda j: f"holds at least to {_amperes(brackets['load'][1][j])} (10 × load_max_A, the search's end)",
+            "load": lambda j: (f"holds at least to {_amperes(brackets['load'][1][j])} "
+                               "(10 × load_max_A, the search's end)"),
             "thermal": lambda j: f"holds at least to {brackets['thermal'][1][j]:.3g} K/W (10 × RthJA in use)"}
     for n, k in enumerate(searches):
         text = object_array(None, P)

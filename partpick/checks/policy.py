@@ -35,6 +35,7 @@ from typing import Any
 from partpick.errors import InputError
 
 __all__ = [
+    "load_policies",
     "GROUPS",
     "GroupLimits",
     "Policy",
@@ -318,3 +319,27 @@ def resolve_limits(policy: Policy, requirement, *, named: bool = True) -> dict[s
                 limits[key] = ResolvedLimit(value, policy_source)
         out[group] = limits
     return out
+
+
+def load_policies(library) -> dict:
+    """The library's stored policies as `Policy` objects (the built-ins are added by the checker).
+
+    ``library`` is anything with ``list_policies()`` (dicts) and ``location`` — the store's
+    `Library`; this layer never imports the database. Shared by ``partpick check`` and the window.
+
+    Raises
+    ------
+    LibraryError
+        A stored policy is not valid (the library's content is damaged, not the user's input).
+    """
+    from partpick.errors import LibraryError
+
+    policies = {}
+    for data in library.list_policies():
+        name = data.get("name", "?") if isinstance(data, dict) else "?"
+        try:
+            policy = Policy.from_dict(data, f"{library.location}: stored policy {name!r}")
+        except InputError as exc:
+            raise LibraryError(f"{exc} (the stored policy is damaged; import it again)") from exc
+        policies[policy.name] = policy
+    return policies

@@ -58,7 +58,8 @@ from partpick.checks.sensitivity import Sensitivity, sensitivities
 from partpick.errors import InputError
 
 __all__ = ["run_check", "evaluate", "Evaluation", "candidate_details", "select_candidates", "resolve_policy",
-           "analyse_candidates", "analyse_parts", "limits_json", "not_analysed_block", "ANALYSED_CANDIDATES"]
+           "why_no_candidates", "analyse_candidates", "analyse_parts", "limits_json", "not_analysed_block",
+           "ANALYSED_CANDIDATES"]
 
 _LIMIT_UNITS = {"reverse_pct": "%", "current_pct": "%", "power_pct": "%", "tj_cap_C": "°C", "tj_margin_K": "K",
                 "resistor_power_pct": "%", "surge_pct": "%",
@@ -173,6 +174,57 @@ def select_candidates(requirement, parts, *, keep: tuple[str, ...] = ()) -> Part
     if isinstance(parts, PartArrays):
         return parts.subset(index)
     return PartArrays([parts[i] for i in index])
+
+
+_KIND_WORDS = {"rectifier": "rectifier", "signal": "signal", "schottky": "Schottky",
+               "fast_recovery": "fast-recovery", "zener": "Zener", "bridge": "bridge", "tvs": "TVS"}
+
+
+def why_no_candidates(requirement, parts) -> str:
+    """Why ``requirement`` leaves no candidate in ``parts`` (words for the window and the CLI), or "".
+
+    The first reason that alone explains the empty list wins: an empty library, no part of a kind
+    the role considers, then each filter on its own (kinds, packages, lifecycle, price), then the
+    filters together. Returns "" when there are candidates.
+    """
+    if isinstance(parts, PartArrays):
+        kind, package, lifecycle, price = parts.kind, parts.package, parts.lifecycle, parts.raw["price"]
+    else:
+        kind = object_array([p.get("kind") for p in parts])
+        package = object_array([p.get("package") for p in parts])
+        lifecycle = object_array([p.get("lifecycle") for p in parts])
+        price = np.array([np.nan if p.get("price") is None else p["price"] for p in parts], dtype=float)
+    role = ROLES[requirement.role]
+    if kind.size == 0:
+        return "the library has no parts yet: add one (Part ▸ Add part…) or import a CSV (Library ▸ Import CSV…)"
+    considered = _member(kind, role.kinds)
+    if not considered.any():
+        if len(role.kinds) == 1:
+            return f"no {_KIND_WORDS.get(role.kinds[0], role.kinds[0])} parts in this library"
+        words = ", ".join(_KIND_WORDS.get(k, k) for k in role.kinds)
+        return f"no parts of the kinds the {role.label} role considers ({words}) in this library"
+    if not (considered & _filter_mask(kind, package, lifecycle, price, requirement)).any():
+        from dataclasses import replace
+
+        blank = {"kinds": None, "packages": None, "lifecycle": None, "max_price": None}
+        alone = []
+        for key, words in (("kinds", "the Kinds filter"), ("packages", "the package filter"),
+                           ("lifecycle", "the lifecycle filter"), ("max_price", "the price limit")):
+            value = getattr(requirement, key)
+            if value is None:
+                continue
+            only = replace(requirement, **dict(blank, **{key: value}))
+            shown = ", ".join(value) if isinstance(value, tuple) else f"{value:g}"
+            if key == "kinds" and not set(value) & set(role.kinds):
+                return (f"the Kinds filter ({shown}) keeps no kind the {role.label} role considers "
+                        f"({', '.join(_KIND_WORDS.get(k, k) for k in role.kinds)})")
+            if not (considered & _filter_mask(kind, package, lifecycle, price, only)).any():
+                if key == "max_price":
+                    return f"no part with a known price is at most {shown} (the price limit)"
+                return f"{words} {shown} matches no part"
+            alone.append(f"{words} {shown}")
+        return "the filters together (" + "; ".join(alone) + ") match no part"
+    return ""
 
 
 def evaluate(requirement, parts, *, policies: dict | None = None, keep: tuple[str, ...] = ()) -> Evaluation:

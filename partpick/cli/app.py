@@ -50,14 +50,21 @@ def run(args) -> int:
     def open_library() -> None:
         from partpick.errors import InputError, LibraryError
 
+        from partpick.gui.commands import recover_from_failed_start
+
+        location = getattr(args, "library", None)
         try:
-            bench.open_library_at(getattr(args, "library", None))
-        except (LibraryError, InputError) as exc:
+            bench.open_library_at(location)
+        except (LibraryError, InputError, OSError) as exc:
             print(f"partpick: {exc}", file=sys.stderr)
-            exit_code[0] = 1
-            window.close()
-            return
+            # SPEC §6: the reason in a dialog that offers another library or the example.
+            if not recover_from_failed_start(bench, exc, location):
+                exit_code[0] = 1
+                window.close()
+                return
         window.rechecker.run_now()
+        if not timing:
+            window.show_first_run()
 
     timing = bool(os.environ.get("PARTPICK_STARTUP_TIMING"))
     if timing:

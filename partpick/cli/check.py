@@ -11,6 +11,7 @@ from __future__ import annotations
 import argparse
 import json
 
+from partpick.checks.policy import load_policies  # noqa: F401 (kept importable from here)
 from partpick.cli import add_library_option
 from partpick.errors import InputError
 from partpick.outputs import write_stdout
@@ -64,28 +65,6 @@ def register(subparsers) -> None:
                         help="operating limits and what sets the worst case for the first N candidates listed "
                              "(default 20; 0: none)")
     parser.set_defaults(func=run)
-
-
-def load_policies(library) -> dict:
-    """The library's policies as `Policy` objects (the built-ins are added by the checker).
-
-    Raises
-    ------
-    LibraryError
-        A stored policy is not valid (the library's content is damaged, not the user's input).
-    """
-    from partpick.checks.policy import Policy
-    from partpick.errors import LibraryError
-
-    policies = {}
-    for data in library.list_policies():
-        name = data.get("name", "?") if isinstance(data, dict) else "?"
-        try:
-            policy = Policy.from_dict(data, f"{library.location}: stored policy {name!r}")
-        except InputError as exc:
-            raise LibraryError(f"{exc} (the stored policy is damaged; import it again)") from exc
-        policies[policy.name] = policy
-    return policies
 
 
 def run(args) -> int:

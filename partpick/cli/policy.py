@@ -44,14 +44,19 @@ def _no_action(args) -> int:
 
 
 def _open(args):
+    import sys
+
     from partpick.library.store import open_library
 
-    return open_library(getattr(args, "library", None))
+    library = open_library(getattr(args, "library", None))
+    if library.note:  # e.g. migrated from an older schema, and where the backup is
+        print(f"partpick: {terminal_safe(library.note, keep='')}", file=sys.stderr)
+    return library
 
 
 def _all_policies(library) -> dict:
     from partpick.checks.policy import BUILTIN_POLICIES
-    from partpick.cli.check import load_policies
+    from partpick.checks.policy import load_policies
 
     return {**load_policies(library), **BUILTIN_POLICIES}
 

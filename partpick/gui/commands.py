@@ -23,7 +23,8 @@ from partpick.errors import InputError, LibraryError, OutputError
 from partpick.gui.models import LibraryModel, RequirementModel, ResultModel
 from partpick.gui.observer import Signal
 
-__all__ = ["Command", "COMMANDS", "command", "Prompt", "Workbench", "CheckJob", "MENUS"]
+__all__ = ["Command", "COMMANDS", "command", "Prompt", "Workbench", "CheckJob", "MENUS", "run_command",
+           "recover_from_failed_start", "OPEN_ANOTHER", "OPEN_EXAMPLE", "QUIT"]
 
 MENUS = ("File", "Library", "Part", "Edit", "Shortlist", "Help")
 
@@ -35,6 +36,9 @@ class Prompt(Protocol):
     def save_path(self, title: str, filter: str, suggested: str = "") -> str | None: ...
     def edit_part(self, part: dict | None, title: str) -> dict | None: ...
     def confirm(self, title: str, text: str) -> bool: ...
+    def choose(self, title: str, text: str, choices: list[str]) -> str | None: ...
+    def show_cautions(self, first_run: bool = False) -> None: ...
+    def show_check_sheet(self, result: dict, part_number: str) -> None: ...
     def show_error(self, title: str, text: str) -> None: ...
     def show_info(self, title: str, text: str) -> None: ...
     def show_problems(self, title: str, summary: str, problems: list[str]) -> None: ...
@@ -62,6 +66,25 @@ class Command:
 
 
 COMMANDS: dict[str, Command] = {}
+
+
+def run_command(bench: "Workbench", command_id: str):
+    """Run a command as the menus do: whatever goes wrong becomes a dialog, never a traceback.
+
+    Commands report the errors they expect themselves; anything that escapes one (a bug, an
+    unforeseen OS error) is shown with the command's name, and the window stays usable.
+    """
+    command_ = COMMANDS[command_id]
+    try:
+        return command_.run(bench)
+    except Exception as exc:  # noqa: BLE001 — the one place every command's error is caught (SPEC §6)
+        title = command_.title.replace("&", "").rstrip("…")
+        text = str(exc) or type(exc).__name__
+        if not isinstance(exc, (InputError, LibraryError, OSError)):
+            text = f"{title} failed: {text} ({type(exc).__name__})"
+        if bench.prompt is not None:
+            bench.prompt.show_error(title, text)
+        return None
 
 
 def command(id: str, title: str, menu: str, *shortcuts: str, tip: str = "", needs_part: bool = False,
@@ -104,10 +127,16 @@ class CheckJob:
     def run(self) -> tuple[dict, float]:
         from partpick.checks.service import run_check
 
+        from partpick.checks.service import why_no_candidates
+
         start = time.perf_counter()
-        result = run_check(self.requirement, self.parts if self.arrays is None else self.arrays,
-                           policies=self.policies, library=self.library, **self.options)
-        return result, (time.perf_counter() - start) * 1e3
+        parts = self.parts if self.arrays is None else self.arrays
+        result = run_check(self.requirement, parts, policies=self.policies, library=self.library, **self.options)
+        elapsed = (time.perf_counter() - start) * 1e3
+        if not result["candidates"] and not self.options.get("substitutes_for"):
+            # The window says why in the shortlist's place (SPEC §6); not part of the CLI's JSON.
+            result["empty_reason"] = why_no_candidates(self.requirement, parts)
+        return result, elapsed
 
 
 class Workbench:
@@ -135,17 +164,57 @@ class Workbench:
         self.selection_changed = Signal()
         self.selected_parts: list[str] = []  # the library table's selection (set with select_parts)
         self.library.library_changed.connect(self._library_opened)
+        self.requirement.loaded.connect(self.result.forget_selection)
+        self.requirement.edited.connect(self._requirement_edited)
+        self._last_requirement_edit = None  # (step, stack index after it): typing on extends it
         self.library.parts_changed.connect(lambda: self.select_parts(self.selected_parts))
+        self.library.parts_changed.connect(self._update_list_choices)
         if library is not None:
             self.library.set_library(library)
 
     # -- library ------------------------------------------------------------
     def _library_opened(self) -> None:
         self.undo_stack.clear()
+        self.result.forget_selection()
+        if self.result.result is not None:
+            self.result.clear()  # its parts are the other library's: nothing shown until the recheck
         self.requirement.set_policy_names(self.library.policy_names())
         location = self.library.location
         if location:
             self.add_recent(location)
+
+    def _update_list_choices(self) -> None:
+        """The requirement's list filters pick from what this library holds (SPEC §6)."""
+        from partpick.library.fields import KINDS
+
+        parts = self.library.parts
+        held = {key: {p.get(key) for p in parts} - {None, ""} for key in ("kind", "package", "lifecycle")}
+        self.requirement.set_list_choices({
+            "kinds": [k for k in KINDS if k in held["kind"]],
+            "packages": sorted(held["package"], key=str.casefold),
+            "lifecycle": [v for v in ("active", "nrnd", "obsolete") if v in held["lifecycle"]]
+                         + sorted(held["lifecycle"] - {"active", "nrnd", "obsolete"}),
+        })
+
+    def _requirement_edited(self, key: str, old: str, new: str) -> None:
+        from partpick.gui.undo import EditRequirementField
+
+        stack = self.undo_stack
+        last = self._last_requirement_edit
+        if last is not None and last[0].key == key and stack.index() == stack.count() == last[1]:
+            last[0].extend(new)  # typing on in the same field: one step
+            return
+        step = EditRequirementField(self.requirement, key, old, new)
+        stack.push(step)
+        self._last_requirement_edit = (step, stack.index())
+
+    def replace_requirement(self, text: str, change: Callable[[], None]) -> None:
+        """Replace the whole requirement (new, open) as one undoable step."""
+        from partpick.gui.undo import ReplaceRequirement
+
+        before = self.requirement.snapshot()
+        change()
+        self.undo_stack.push(ReplaceRequirement(self.requirement, text, before, self.requirement.snapshot()))
 
     def select_parts(self, part_numbers) -> None:
         """The library parts the part commands act on (the library table shows the same)."""
@@ -214,6 +283,53 @@ class Workbench:
         self.library.close()
 
 
+OPEN_ANOTHER, OPEN_EXAMPLE, QUIT = "Open another library…", "Open the example library", "Quit"
+
+
+def example_library_copy() -> Path:
+    """A copy of the bundled example library in the user-data folder (made once; never the user's own
+    library file, which may be the one that failed)."""
+    import shutil
+
+    from partpick.library.location import bundled_example_path, user_library_path
+
+    target = user_library_path().with_name("example-library.sqlite")
+    if not target.exists():
+        target.parent.mkdir(parents=True, exist_ok=True)
+        tmp = target.with_name(target.name + ".tmp")
+        shutil.copyfile(bundled_example_path(), tmp)
+        tmp.replace(target)
+    return target
+
+
+def recover_from_failed_start(bench: Workbench, error: Exception, location=None) -> bool:
+    """The library given at start could not be opened: say why, offer another one or the example.
+
+    Returns True once a library is open, False when the user chose to quit.
+    """
+    message = str(error)
+    while True:
+        answer = bench.prompt.choose(
+            "partpick: library not opened",
+            f"The library {location or ''} could not be opened:\n\n{message}\n\n"
+            "Open another library, or the example library (a copy, your file is left as it is)?".replace("  ", " "),
+            [OPEN_ANOTHER, OPEN_EXAMPLE, QUIT])
+        try:
+            if answer == OPEN_ANOTHER:
+                path = bench.prompt.open_path("Open library", _LIBRARY)
+                if not path:
+                    continue
+                bench.open_library_at(path)
+            elif answer == OPEN_EXAMPLE:
+                bench.open_library_at(example_library_copy())
+            else:
+                return False
+        except (LibraryError, InputError, OSError) as exc:
+            message = str(exc)
+            continue
+        return True
+
+
 # ---------------------------------------------------------------------------
 # File: requirements
 _TOML = "Requirement (*.toml);;All files (*)"
@@ -223,7 +339,32 @@ _LIBRARY = "Library (*.sqlite *.db);;All files (*)"
 
 @command("requirement.new", "&New requirement", "File", "Ctrl+N", tip="Start a new requirement (policy: commercial)")
 def new_requirement(bench: Workbench) -> None:
-    bench.requirement.reset()
+    if not _may_replace_requirement(bench, "New requirement"):
+        return
+    bench.replace_requirement("New requirement", bench.requirement.reset)
+
+
+def _may_replace_requirement(bench: Workbench, title: str) -> bool:
+    """An edited, unsaved requirement is kept unless the user says otherwise (it stays undoable too)."""
+    if not bench.requirement.modified:
+        return True
+    return bench.prompt.confirm(title, "The requirement has unsaved changes. Replace it anyway? "
+                                       "(Edit ▸ Undo brings it back.)")
+
+
+def unsaved_requirement_answer(bench: Workbench) -> bool:
+    """Before quitting: True when the window may close (saved, discarded, or nothing unsaved)."""
+    if not bench.requirement.modified:
+        return True
+    name = bench.requirement.value("name") or "the requirement"
+    answer = bench.prompt.choose("Quit", f"“{name}” has unsaved changes. Save them before quitting?",
+                                 ["Save", "Discard", "Cancel"])
+    if answer == "Discard":
+        return True
+    if answer == "Save":
+        save_requirement(bench)
+        return not bench.requirement.modified
+    return False
 
 
 def load_requirement_file(bench: Workbench, path: str | Path) -> None:
@@ -233,13 +374,19 @@ def load_requirement_file(bench: Workbench, path: str | Path) -> None:
 
     load_requirement(path)  # InputError naming file, line and key (a bounded reader)
     data = parse_toml(read_input_bytes(path, "requirement file").decode("utf-8"), str(path))
-    bench.requirement.load_dict(data, source=str(path))
-    bench.requirement.path = str(path)
+
+    def load() -> None:
+        bench.requirement.load_dict(data, source=str(path))
+        bench.requirement.path = str(path)
+
+    bench.replace_requirement(f"Open {Path(path).name}", load)
     bench.add_recent(str(Path(path).resolve()), kind="requirements")
 
 
 @command("requirement.open", "&Open requirement…", "File", "Ctrl+O", tip="Open a requirement TOML file")
 def open_requirement(bench: Workbench) -> None:
+    if not _may_replace_requirement(bench, "Open requirement"):
+        return
     path = bench.prompt.open_path("Open requirement", _TOML)
     if not path:
         return
@@ -259,6 +406,7 @@ def save_requirement_file(bench: Workbench, path: str | Path) -> None:
     text = requirement_to_toml(bench.requirement.build_requirement())
     target.write(text.encode("utf-8"))  # whole file or nothing
     bench.requirement.path = str(path)
+    bench.requirement.modified = False
     bench.add_recent(str(Path(path).resolve()), kind="requirements")
 
 
@@ -324,8 +472,8 @@ def export_curves(bench: Workbench) -> None:
     if not path:
         return
     try:
-        target = bench.output_target(path)  # never the library or the requirement file
-        bench.prompt.export_curves(str(target.resolved))  # written through partpick.outputs
+        bench.output_target(path)  # refused first when it is the library, a database or the requirement file
+        bench.prompt.export_curves(path)  # the image is written through partpick.outputs (plots.export)
     except (InputError, OSError, RuntimeError) as exc:
         bench.prompt.show_error("Save curves image", f"No image written: {exc}")
 
@@ -373,17 +521,14 @@ def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
         bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: the library is read-only.")
         return None
     library = bench.library.library
-    try:
-        library.import_csv(path, dry_run=True)
-    except InputError as exc:
-        bench.prompt.show_problems("Import CSV", f"{Path(path).name}: nothing imported.", _problem_lines(exc))
-        return None
-    except (LibraryError, OSError) as exc:
-        bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: {exc}")
-        return None
 
     def work(progress, cancel):
-        return library.import_csv(path, progress=progress, cancel=cancel)
+        # One progress dialog from the first row (SPEC §6: progress within 0.2 s): the dry run that
+        # judges every row is the first half, the import the second.
+        checked = library.import_csv(path, dry_run=True, progress=lambda d, t: progress(d, 2 * t), cancel=cancel)
+        if getattr(checked, "cancelled", False):
+            return checked
+        return library.import_csv(path, progress=lambda d, t: progress(t + d, 2 * t), cancel=cancel)
 
     try:
         summary = bench.prompt.run_with_progress(f"Importing {Path(path).name}", work)
@@ -394,7 +539,7 @@ def import_csv_file(bench: Workbench, path: str | Path) -> object | None:
         bench.prompt.show_error("Import CSV", f"{Path(path).name}: nothing imported: {exc}")
         summary = None
     bench.library.reload()
-    if summary is not None:
+    if summary is not None and not getattr(summary, "cancelled", False):
         bench.undo_stack.clear()
     return summary
 
@@ -536,11 +681,26 @@ def substitutes(bench: Workbench) -> None:
     bench.prompt.show_substitutes(part)
 
 
+@command("shortlist.check_sheet", "Show check &sheet", "Shortlist", "Ctrl+K",
+         tip="Every check of the selected shortlist part: value, limit, margin, worst corner")
+def check_sheet(bench: Workbench) -> None:
+    part = bench.selected_candidate()
+    if part is None or bench.result.result is None:
+        bench.prompt.show_info("Check sheet", "Select a part in the shortlist first.")
+        return
+    bench.prompt.show_check_sheet(bench.result.result, part)
+
+
 # ---------------------------------------------------------------------------
 # Help
 @command("help.formulas", "&Formulas, sources and cautions", "Help", "F1")
 def help_formulas(bench: Workbench) -> None:
     bench.prompt.show_help()
+
+
+@command("help.cautions", "&Cautions", "Help", tip="What the numbers rest on, and what they do not replace")
+def help_cautions(bench: Workbench) -> None:
+    bench.prompt.show_cautions()
 
 
 @command("help.about", "&About partpick", "Help")

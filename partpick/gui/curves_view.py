@@ -9,7 +9,7 @@ kept and only their contents replaced, so a redraw costs the drawing alone.
 from __future__ import annotations
 
 import pyqtgraph as pg
-from PySide6.QtCore import Signal
+from PySide6.QtCore import Qt, Signal
 from PySide6.QtGui import QPalette
 from PySide6.QtWidgets import QGridLayout, QHBoxLayout, QLabel, QTabWidget, QToolButton, QVBoxLayout, QWidget
 
@@ -84,6 +84,13 @@ class _CurvePage(QWidget):
         self.readouts: list[list] = []
         self.shown = 0
         self.dirty = True
+        # In the plots' place when nothing is drawn (SPEC §6: the curves say "no part selected").
+        self.empty_label = QLabel("No part selected", self)
+        self.empty_label.setObjectName(f"curves_empty_{key}")
+        self.empty_label.setAlignment(Qt.AlignmentFlag.AlignCenter)
+        self.empty_label.setWordWrap(True)
+        self._grid.addWidget(self.empty_label, 0, 0, 1, 1)
+        self.empty_label.hide()
 
     @property
     def cells(self) -> list[list[pg.PlotItem]]:
@@ -109,9 +116,14 @@ class _CurvePage(QWidget):
                 widget.setVisible(col < count)
         self.shown = count
 
-    def draw(self, curve_sets: list[dict]) -> int:
+    def draw(self, curve_sets: list[dict], empty_text: str = "No part selected") -> int:
         """Draw each part's curves into its column; returns the number of plots with something on them."""
         self._ensure_columns(len(curve_sets))
+        self.empty_label.setText(empty_text)
+        self.empty_label.setVisible(not curve_sets)
+        if not curve_sets and not self.widgets:
+            self.dirty = False
+            return 0
         plots = _plots()
         drawn = 0
         for col in range(len(self.widgets)):
@@ -154,6 +166,8 @@ class _CurvePage(QWidget):
     def _link_axes(self) -> None:
         """Same scales across parts, so the eye compares curves, not axes."""
         cells = self.cells
+        if not cells:
+            return
         for row in range(len(self.rows)):
             lead = cells[0][row].getViewBox()
             for column in cells[1:]:
@@ -226,7 +240,7 @@ class CurvesView(QWidget):
         self.legend_button.setText("Legend")
         self.legend_button.setCheckable(True)
         self.legend_button.setChecked(True)
-        self.legend_button.setToolTip("Show or hide the legends (they can cover curves on small plots)")
+        self.legend_button.setToolTip("Show or hide the legend (beside the plots, never over the curves)")
         self.legend_button.toggled.connect(self._update_legends)
         top.addWidget(self.legend_button)
         self.export_button = QToolButton(self)
@@ -241,6 +255,13 @@ class CurvesView(QWidget):
             self.pages[key] = page
             self.tabs.addTab(page, title)
         layout.addWidget(self.tabs, 1)
+        # The legend sits under the plots, outside every plot area, so it never hides a curve.
+        self.legend = QLabel(self)
+        self.legend.setObjectName("curves_legend")
+        self.legend.setWordWrap(True)
+        self.legend.setTextFormat(Qt.TextFormat.RichText)
+        layout.addWidget(self.legend)
+        self.empty_text = "No part selected"
         self.tabs.currentChanged.connect(self._tab_shown)
         result.changed.connect(self.refresh)
         result.selection_changed.connect(self.refresh)
@@ -274,14 +295,20 @@ class CurvesView(QWidget):
             self.tabs.setTabVisible(self.tabs.indexOf(page), shown)
         notes = [f"{c['part_number']}: {note}" for c in sets for note in c.get("notes", [])]
         if not sets:
-            notes = ["Select parts in the shortlist to see their curves."] if result else []
+            notes = []
+            if result is not None and not result.get("candidates"):
+                self.empty_text = "No part selected: the shortlist has no candidates"
+            elif result is not None:
+                self.empty_text = "No part selected: select parts in the shortlist (Ctrl+click for up to four)"
+            else:
+                self.empty_text = "No part selected"
         self.notes.setText("\n".join(notes))  # kept visible when empty: it holds the buttons to the right
         for page in self.pages.values():
             page.dirty = True
         self._draw(self.current_page())
 
     def _draw(self, page: _CurvePage) -> None:
-        page.draw(self.curve_sets)
+        page.draw(self.curve_sets, self.empty_text)
         for column in page.cells:
             for plot_item in column:
                 # Each only where it is not so already: every one rebuilds rich text or an axis picture.
@@ -301,29 +328,43 @@ class CurvesView(QWidget):
         self.redraws += 1
 
     def _update_legends(self, *_args) -> None:
-        """One legend per tab (every plot of a tab uses the same lines and colours); the plots layer
-        puts it in the corner its curves leave free."""
-        visible = self.legend_button.isChecked()
+        """One legend for the visible tab (every plot of a tab uses the same lines and colours), under
+        the plots: pyqtgraph's in-plot legends stay hidden, as they would cover curves on small plots."""
+        import html
+
         for page in self.pages.values():
-            for col, column in enumerate(page.cells):
-                for row, plot_item in enumerate(column):
-                    legend = plot_item.legend
-                    if legend is None:
-                        continue
-                    if legend.opts.get("labelTextSize") != "8pt":  # new entries take the legend's size
-                        legend.setLabelTextSize("8pt")
-                    # On the I–V tab the log plot's upper left (low VF, high IF) is the emptiest.
-                    legend.setVisible(visible and col == 0 and row == len(column) - 1)
+            for column in page.cells:
+                for plot_item in column:
+                    if plot_item.legend is not None and plot_item.legend.isVisible():
+                        plot_item.legend.setVisible(False)
+        page = self.current_page()
+        entries: list = []
+        if page is not None and page.shown:
+            plots = _plots()
+            for row in range(len(page.rows)):
+                for entry in plots.legend_entries(page.items[0][row]):
+                    if entry not in entries:
+                        entries.append(entry)
+        text = " &nbsp; ".join(
+            f'<span style="white-space: nowrap"><span style="color: {colour}">{glyph}</span>&nbsp;'
+            f"{html.escape(label)}</span>" for glyph, colour, label in entries)
+        if text != self.legend.text():
+            self.legend.setText(text)
+        self.legend.setVisible(self.legend_button.isChecked() and bool(entries))
 
     def _tab_shown(self, _index: int) -> None:
         page = self.current_page()
         if page is not None and page.dirty:
             self._draw(page)
+        else:
+            self._update_legends()  # the legend names the visible tab's curves
 
     # -- export ---------------------------------------------------------------
     def export_image(self, path: str) -> None:
         """The visible tab as PNG or SVG (by the file's extension)."""
         page = self.current_page()
+        if page is None or page.shown == 0:
+            raise RuntimeError("no part selected: there are no curves to save (select a shortlist part)")
         title = self.tabs.tabText(self.tabs.currentIndex())
         single = page.widgets[0][0] if page.shown == 1 and len(page.rows) == 1 else None
         plots = _plots()

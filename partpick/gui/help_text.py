@@ -6,13 +6,7 @@ from html import escape
 
 __all__ = ["CAUTIONS", "FORMULAS", "help_html"]
 
-CAUTIONS = (
-    "Diodes in mains rectifiers, high-energy supplies and protection paths can fail violently or leave "
-    "circuits live.",
-    "Results are estimates from datasheet parameters. Verify every choice against the manufacturer's "
-    "datasheet, prototypes and measurements.",
-    "Local electrical codes and licensed practice take precedence over anything partpick shows.",
-)
+from partpick.checks.cautions import ALL_CAUTIONS as CAUTIONS  # SPEC §7: general and assumptions
 
 # (topic, formula, source)
 FORMULAS = (

@@ -51,13 +51,36 @@ class PartsTableModel(QAbstractTableModel):
         super().__init__(parent)
         self._model = model
         self._rows: list[dict] = model.visible_parts()
+        self._sort: tuple[int, Qt.SortOrder] | None = None  # (column, order); None: library order
         model.parts_changed.connect(self.refresh)
         model.filter_changed.connect(self.refresh)
 
     def refresh(self) -> None:
         self.beginResetModel()
         self._rows = self._model.visible_parts()
+        self._apply_sort()
         self.endResetModel()
+
+    def sort(self, column: int, order=Qt.SortOrder.AscendingOrder) -> None:  # Qt's name
+        """Sort by any column: numbers by value (unknown last), text case-blind."""
+        if not 0 <= column < len(LIBRARY_COLUMNS):
+            return
+        self._sort = (column, order)
+        self.beginResetModel()
+        self._apply_sort()
+        self.endResetModel()
+
+    def _apply_sort(self) -> None:
+        if self._sort is None:
+            return
+        column, order = self._sort
+        name = LIBRARY_COLUMNS[column]
+        numeric = FIELDS_BY_NAME[name].type == "float"
+        descending = order == Qt.SortOrder.DescendingOrder
+        known = [p for p in self._rows if p.get(name) not in (None, "")]
+        unknown = [p for p in self._rows if p.get(name) in (None, "")]
+        known.sort(key=(lambda p: p[name]) if numeric else (lambda p: str(p[name]).casefold()), reverse=descending)
+        self._rows = known + unknown  # unknown values last, whichever the direction
 
     def part_at(self, row: int) -> dict:
         return self._rows[row]
@@ -149,6 +172,14 @@ class LibraryView(QWidget):
         self.table.verticalHeader().setDefaultSectionSize(self.fontMetrics().height() + 6)
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         self.table.horizontalHeader().setStretchLastSection(True)
+        self.table.horizontalHeader().setSortIndicatorShown(True)
+        self.table.horizontalHeader().setSortIndicator(-1, Qt.SortOrder.AscendingOrder)
+        self.table.setSortingEnabled(True)
+        self.table.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
+        self.table.customContextMenuRequested.connect(self._context_menu)
+        self.context_menu = None
+        self._actions: dict = {}
+        self._kept_selection: list[str] = []
         layout.addWidget(self.table, 1)
 
         buttons = QHBoxLayout()
@@ -173,6 +204,9 @@ class LibraryView(QWidget):
         self.table.doubleClicked.connect(lambda index: self.activated.emit(
             self.table_model.part_at(index.row())["part_number"]))
         self.table_model.modelReset.connect(self._update_count)
+        # A sort (or a refresh) resets the rows: the same parts stay selected.
+        self.table_model.modelAboutToBeReset.connect(self._keep_selection)
+        self.table_model.modelReset.connect(lambda: self.show_selection(self._kept_selection))
         model.parts_changed.connect(self._update_packages)
         model.filter_changed.connect(self._update_filters)
         self._update_packages()
@@ -196,9 +230,34 @@ class LibraryView(QWidget):
         self.model.set_filter(**{key: value})
 
     def bind_actions(self, actions: dict) -> None:
-        """Put the part commands' actions on the buttons (one action, one behaviour)."""
+        """Put the part commands' actions on the buttons and the row context menu (one action, one behaviour)."""
         for command_id, button in self.buttons.items():
             button.setDefaultAction(actions[command_id])
+        self._actions = {k: actions[k] for k in ("part.edit", "part.duplicate", "part.delete", "part.add")
+                         if k in actions}
+
+    def _keep_selection(self) -> None:
+        self._kept_selection = self.selected_part_numbers()
+
+    def _context_menu(self, position) -> None:
+        from PySide6.QtGui import QGuiApplication
+        from PySide6.QtWidgets import QMenu
+
+        index = self.table.indexAt(position)
+        if index.isValid() and not self.table.selectionModel().isRowSelected(index.row(), QModelIndex()):
+            self.table.selectRow(index.row())
+        menu = self.context_menu = QMenu(self)
+        for command_id in ("part.edit", "part.duplicate", "part.delete"):
+            if command_id in self._actions:
+                menu.addAction(self._actions[command_id])
+        menu.addSeparator()
+        if "part.add" in self._actions:
+            menu.addAction(self._actions["part.add"])
+        copy = menu.addAction("Copy part number")
+        copy.setObjectName("copy_part_number")
+        copy.setEnabled(bool(self.selected_part_numbers()))
+        copy.triggered.connect(lambda: QGuiApplication.clipboard().setText("\n".join(self.selected_part_numbers())))
+        menu.popup(self.table.viewport().mapToGlobal(position))
 
     def _resize_columns(self) -> None:
         self.table.resizeColumnsToContents()

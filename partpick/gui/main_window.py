@@ -24,7 +24,7 @@ from PySide6.QtWidgets import (
     QApplication,
 )
 
-from partpick.gui.commands import COMMANDS, MENUS, Workbench, import_csv_file
+from partpick.gui.commands import COMMANDS, MENUS, Workbench, import_csv_file, run_command
 from partpick.gui.curves_view import CurvesView
 from partpick.gui.library_view import LibraryView
 from partpick.gui.limits_view import LimitsComputer, LimitsPanel
@@ -73,6 +73,29 @@ class WindowPrompt:
     def confirm(self, title, text):
         return QMessageBox.question(self.window, title, text) == QMessageBox.StandardButton.Yes
 
+    def choose(self, title, text, choices):
+        box = QMessageBox(QMessageBox.Icon.Question, title, text, QMessageBox.StandardButton.NoButton, self.window)
+        buttons = {}
+        for index, choice in enumerate(choices):
+            role = (QMessageBox.ButtonRole.RejectRole if choice in ("Cancel", "Quit")
+                    else QMessageBox.ButtonRole.AcceptRole if index == 0 else QMessageBox.ButtonRole.ActionRole)
+            buttons[box.addButton(choice, role)] = choice
+        box.exec()
+        answer = buttons.get(box.clickedButton())
+        box.deleteLater()
+        return answer
+
+    def show_cautions(self, first_run=False):
+        from partpick.gui.dialogs import CautionsDialog
+
+        self.window.open_dialog(CautionsDialog(first_run, self.window))
+
+    def show_check_sheet(self, result, part_number):
+        from partpick.gui.dialogs import CheckSheetDialog
+
+        self.window.open_dialog(CheckSheetDialog(result, part_number, self.window.bench.library.get_part(part_number),
+                                                 self.window))
+
     def show_error(self, title, text):
         QMessageBox.warning(self.window, title, text)
 
@@ -90,8 +113,11 @@ class WindowPrompt:
         dialog = QProgressDialog(title, "Cancel", 0, 1000, self.window)
         dialog.setWindowTitle("partpick")
         dialog.setWindowModality(Qt.WindowModality.WindowModal)
-        dialog.setMinimumDuration(300)
+        dialog.setMinimumDuration(0)
+        dialog.setValue(0)
         self.window.progress_dialog = dialog
+        dialog.show()  # at once: the work below may take seconds before its first progress report
+        QApplication.processEvents()
 
         def progress(done, total):
             dialog.setValue(int(1000 * done / total) if total else 0)
@@ -166,12 +192,25 @@ class MainWindow(QMainWindow):
 
         self.status_label = QLabel(self)
         self.location_label = QLabel(self)
+        # SPEC §7 on the main window: one line in the status area, the full text on click.
+        from partpick.checks.cautions import SHORT_CAUTION
+
+        from PySide6.QtWidgets import QToolButton
+
+        self.caution_label = QToolButton(self)  # flat, in the status bar's own colours (light and dark)
+        self.caution_label.setText(f"⚠ {SHORT_CAUTION}")
+        self.caution_label.setAutoRaise(True)
+        self.caution_label.setObjectName("caution_label")
+        self.caution_label.setToolTip("Click for the cautions in full (Help ▸ Cautions)")
+        self.caution_label.clicked.connect(lambda: self.run_command("help.cautions"))
         self.statusBar().addWidget(self.status_label, 1)
+        self.statusBar().addPermanentWidget(self.caution_label)
         self.statusBar().addPermanentWidget(self.location_label)
 
         self.actions: dict[str, QAction] = {}
         self._build_menus()
         self.library_view.bind_actions(self.actions)
+        self.shortlist.bind_actions(self.actions)
         self.curves.export_button.setDefaultAction(self.actions["curves.export"])
 
         self.rechecker = Rechecker(bench, parent=self)
@@ -240,8 +279,9 @@ class MainWindow(QMainWindow):
             view.addAction(dock.toggleViewAction())
 
     def run_command(self, command_id: str):
-        """Run a registered command on this window's workbench (menus, shortcuts, buttons, tests)."""
-        return COMMANDS[command_id].run(self.bench)
+        """Run a registered command on this window's workbench (menus, shortcuts, buttons, tests);
+        any error it meets becomes a dialog (`commands.run_command`)."""
+        return run_command(self.bench, command_id)
 
     def open_dialog(self, dialog) -> None:
         """Show a non-modal dialog, kept until closed (and closed with the window)."""
@@ -275,20 +315,17 @@ class MainWindow(QMainWindow):
         self.recent_requirements_menu.setEnabled(bool(self.bench.recent_requirements))
 
     def _open_recent_requirement(self, path: str) -> None:
-        from partpick.errors import InputError
         from partpick.gui.commands import load_requirement_file
 
         try:
             load_requirement_file(self.bench, path)
-        except (InputError, OSError) as exc:
+        except Exception as exc:  # noqa: BLE001 — a dialog, never a traceback (SPEC §6)
             self.bench.prompt.show_error("Open requirement", str(exc))
 
     def _open_recent(self, location: str) -> None:
-        from partpick.errors import InputError, LibraryError
-
         try:
             self.bench.open_library_at(location)
-        except (LibraryError, InputError) as exc:
+        except Exception as exc:  # noqa: BLE001 — a dialog, never a traceback (SPEC §6)
             self.bench.prompt.show_error("Open library", str(exc))
 
     def _update_actions(self) -> None:
@@ -323,8 +360,7 @@ class MainWindow(QMainWindow):
         if isinstance(geometry, QByteArray) and not geometry.isEmpty():
             self.restoreGeometry(geometry)
         else:
-            self.resize(1400, 860)
-            self.resizeDocks([self.requirement_dock, self.library_dock], [350, 430], Qt.Orientation.Horizontal)
+            self._first_size()
         state = s.value("window/state")
         if isinstance(state, QByteArray) and not state.isEmpty():
             self.restoreState(state)
@@ -341,6 +377,25 @@ class MainWindow(QMainWindow):
             current = getattr(self.bench, name)
             setattr(self.bench, name,
                     list(dict.fromkeys(current + [r for r in (recent or []) if r]))[: self.bench.MAX_RECENT])
+
+    def _first_size(self) -> None:
+        """The first-run size: 1400 × 860 where the screen allows, never larger than the screen's
+        available area (a 1366 × 768 laptop keeps its task bar and title bar)."""
+        width, height = 1400, 860
+        screen = self.screen() or QApplication.primaryScreen()
+        if screen is not None:
+            area = screen.availableGeometry()
+            width, height = min(width, area.width() - 16), min(height, area.height() - 48)
+        self.resize(width, height)
+        # The centre (shortlist and curves) gets the most; the library panel is looked at now and then.
+        side = max(240, min(350, width * 2 // 9)), max(240, min(430, width // 5))
+        self.resizeDocks([self.requirement_dock, self.library_dock], list(side), Qt.Orientation.Horizontal)
+
+    def show_first_run(self) -> None:
+        """On the first run, the cautions (SPEC §7), once per user."""
+        if not self.settings.value("cautions/shown", False, type=bool):
+            self.settings.setValue("cautions/shown", True)
+            self.bench.prompt.show_cautions(first_run=True)
 
     def save_settings(self) -> None:
         s = self.settings
@@ -370,6 +425,13 @@ class MainWindow(QMainWindow):
 
     # -- events -------------------------------------------------------------
     def closeEvent(self, event) -> None:  # noqa: N802
+        from partpick.gui.commands import unsaved_requirement_answer
+
+        if not getattr(self, "_closing", False):
+            if not unsaved_requirement_answer(self.bench):
+                event.ignore()
+                return
+            self._closing = True
         self.save_settings()
         self.rechecker.shutdown()
         self.limits.shutdown()

@@ -253,6 +253,10 @@ class RequirementModel:
         self.role_changed = Signal()
         self.loaded = Signal()
         self.errors_changed = Signal()
+        self.edited = Signal()  # edited(key, old_text, new_text): a user's edit (the undo stack records it)
+        self.modified = False  # edited since it was loaded, reset or saved (quitting asks)
+        self.choices_changed = Signal()  # the library's values the list filters pick from changed
+        self._list_choices: dict[str, tuple] = {}
         self.reset()
 
     # -- state ------------------------------------------------------------
@@ -286,11 +290,57 @@ class RequirementModel:
         """The errors of the fields that apply to the current role."""
         return {k: s.error for k, s in self.fields.items() if s.error and self.applies(k)}
 
+    def set_list_choices(self, choices: dict) -> None:
+        """What the library holds for the list filters (``{"kinds": (...), "packages": ..., "lifecycle": ...}``):
+        the form offers these, not free text (SPEC §6)."""
+        choices = {k: tuple(v) for k, v in choices.items()}
+        if choices != self._list_choices:
+            self._list_choices = choices
+            self.choices_changed.emit()
+
+    def list_choices(self, key: str) -> tuple:
+        """The values a list filter offers: the library's, and any the requirement names already."""
+        held = list(self._list_choices.get(key, ()))
+        for value in self.fields[key].value or ():
+            if value not in held:
+                held.append(value)
+        return tuple(held)
+
     def set_policy_names(self, names) -> None:
         self.policy_names = tuple(names)
         self._revalidate("policy")
 
     # -- setters (from the widgets) ----------------------------------------
+    def edit_text(self, key: str, text: str) -> None:
+        """A user's edit of a field (the widgets call this): as `set_text`, and recorded for undo."""
+        old = self.fields[key].text
+        if old == text:
+            return
+        self.set_text(key, text)
+        self.modified = True
+        self.edited.emit(key, old, text)
+
+    def snapshot(self) -> dict:
+        """Every field's text, the source, the file and the modified flag (undo of a load)."""
+        return {"texts": {k: s.text for k, s in self.fields.items()}, "source": self.source, "path": self.path,
+                "modified": self.modified}
+
+    def restore(self, snapshot: dict) -> None:
+        """Put back a `snapshot` (every field re-parsed, one `loaded`)."""
+        for key, text in snapshot["texts"].items():
+            state = self.fields[key]
+            state.text = text
+            try:
+                state.value, state.error = _parse_field(FIELDS_BY_KEY[key], text), ""
+            except InputError as exc:
+                state.value, state.error = None, str(exc)
+        self.source, self.path, self.modified = snapshot["source"], snapshot["path"], snapshot["modified"]
+        self._set_form_error("")
+        self.loaded.emit()
+        self.errors_changed.emit()
+        self.role_changed.emit(self.role)
+        self.values_changed.emit()
+
     def set_text(self, key: str, text: str) -> None:
         """Take a field's text as typed; parse it; emit what changed."""
         state = self.fields[key]
@@ -354,6 +404,7 @@ class RequirementModel:
             except InputError as exc:
                 state.value, state.error = None, str(exc)
         self.source = source
+        self.modified = False
         self._set_form_error("")
         self.loaded.emit()
         self.errors_changed.emit()
@@ -457,10 +508,21 @@ class LibraryModel:
         return self.library.location if self.library is not None else ""
 
     def set_library(self, library) -> None:
+        """Make ``library`` the open one — only once its parts have been read.
+
+        A library whose parts cannot be read (damaged content) raises here and is closed; the
+        previous library stays open and bound, so later imports and edits still go to it.
+        """
+        try:
+            parts = library.list_parts() if library is not None else []
+        except BaseException:
+            if library is not None and library is not self.library:
+                library.close()
+            raise
         if self.library is not None and self.library is not library:
             self.library.close()
         self.library = library
-        self._load()
+        self._set_parts(parts)
         self.library_changed.emit()
         self.parts_changed.emit()
 
@@ -474,7 +536,10 @@ class LibraryModel:
         self.parts_changed.emit()
 
     def _load(self) -> None:
-        self.parts = self.library.list_parts() if self.library is not None else []
+        self._set_parts(self.library.list_parts() if self.library is not None else [])
+
+    def _set_parts(self, parts: list[dict]) -> None:
+        self.parts = parts
         self._by_number = {p["part_number"]: p for p in self.parts}
         self._content_hash = None
         self._arrays = None
@@ -507,7 +572,7 @@ class LibraryModel:
 
     def policies(self) -> dict:
         """The library's own derating policies as the CLI loads them (the checker adds the built-ins)."""
-        from partpick.cli.check import load_policies
+        from partpick.checks.policy import load_policies
 
         return load_policies(self.library) if self.library is not None else {}
 
@@ -633,6 +698,7 @@ class ResultModel:
         self.stale = False
         self.message = ""
         self.selected: list[str] = []
+        self._select_top = False
         self.changed = Signal()
         self.state_changed = Signal()
         self.selection_changed = Signal()
@@ -658,12 +724,25 @@ class ResultModel:
         summary = (self.result or {}).get("summary")
         return int(summary["candidates"]) if summary else len(self.candidates)
 
+    @property
+    def empty_reason(self) -> str:
+        """Why the latest result lists no candidate ("" when it lists some, or there is none)."""
+        if self.result is None or self.candidates:
+            return ""
+        return self.result.get("empty_reason") or "no part passes the candidate selection"
+
+    def forget_selection(self) -> None:
+        """The next result selects its top part (another requirement was loaded: the curves must not
+        keep showing a part chosen for the previous one)."""
+        self._select_top = True
+
     def set_result(self, result: dict, elapsed_ms: float, part_count: int) -> None:
         self.result = result
         self.elapsed_ms = elapsed_ms
         self.part_count = part_count
         numbers = {c["part_number"] for c in self.candidates}
-        kept = [p for p in self.selected if p in numbers]
+        kept = [] if self._select_top else [p for p in self.selected if p in numbers]
+        self._select_top = False
         # The selection follows the parts that are still candidates, else the top part;
         # views re-read it on `changed` (one redraw per result, not two).
         self.selected = kept or ([self.candidates[0]["part_number"]] if self.candidates else [])
@@ -675,8 +754,11 @@ class ResultModel:
     def clear(self) -> None:
         self.result = None
         self.selected = []
+        self.stale = False
+        self.message = ""
         self.changed.emit()
         self.selection_changed.emit()
+        self.state_changed.emit()
 
     def set_stale(self, message: str) -> None:
         """The shown result no longer matches the form (bad field, or a failed check): say why."""
@@ -694,6 +776,9 @@ class ResultModel:
         """The status-bar line: ``"N of M parts pass · t ms"``."""
         if self.result is None:
             return self.message or "No result yet"
+        if not self.candidates:
+            text = f"No candidates: {self.empty_reason} · {self.elapsed_ms:.0f} ms"
+            return f"{self.message} — showing the last good result ({text})" if self.stale else text
         text = f"{self.pass_count()} of {self.candidate_count()} parts pass · {self.elapsed_ms:.0f} ms"
         if len(self.candidates) < self.candidate_count():
             text += f" · first {len(self.candidates)} listed"

@@ -18,7 +18,7 @@ from partpick.gui.observer import Signal
 from partpick.library.fields import FIELD_NAMES, FIELDS_BY_NAME, PART_FIELDS, empty_part, kind_group, part_problems
 from partpick.units import format_quantity, parse_quantity
 
-__all__ = ["PartEditModel", "parse_points", "format_points", "FitPreview"]
+__all__ = ["PartEditModel", "parse_points", "format_points", "FitPreview", "on_screen_words"]
 
 _SEPARATORS = re.compile(r"[;\n]")
 _PAIR = re.compile(r"\s*[,:\t]\s*")
@@ -173,7 +173,11 @@ class PartEditModel:
         if old is None:
             old = (dict(self.parse_errors), list(self.problems))
         part = self.part()
-        located = [] if self.parse_errors else list(part_problems(part))
+        # A field that does not parse is left out of the record judged, so every other field's
+        # range error still shows (one typo must not hide the rest).
+        for name in self.parse_errors:
+            part[name] = [] if FIELDS_BY_NAME[name].type == "points" else None
+        located = [(f, m) for f, m in part_problems(part) if f not in self.parse_errors]
         number = part.get("part_number")
         if number and number in self.existing:
             located.append(("part_number", f"part {number}: part_number {number!r} is already in the library"))
@@ -183,9 +187,9 @@ class PartEditModel:
         for field_name, message in located:
             name = field_name if field_name in FIELD_NAMES else _field_named(message)
             if name:
-                self.field_problems.setdefault(name, []).append(_without_who(message))
+                self.field_problems.setdefault(name, []).append(on_screen_words(_without_who(message)))
             else:
-                self.general_problems.append(_without_who(message))
+                self.general_problems.append(on_screen_words(_without_who(message)))
         if (dict(self.parse_errors), list(self.problems)) != old:
             for name in FIELD_NAMES:
                 self.field_changed.emit(name)
@@ -223,6 +227,17 @@ class PartEditModel:
         self.set_value("n", float(fit.ideality))
         self.set_value("rs_ohm", float(fit.series_resistance))
         self.set_text("model_source", "fitted")
+
+
+def on_screen_words(message: str) -> str:
+    """A library message with its file keys (``vrrm_V``) replaced by the editor's labels (``VRRM [V]``)."""
+    def label(match):
+        spec = FIELDS_BY_NAME[match.group(0)]
+        return spec.label + (f" [{spec.unit}]" if spec.unit else "")
+
+    names = sorted((n for n in FIELD_NAMES if len(n) > 1 and "_" in n or n in ("n",)), key=len, reverse=True)
+    pattern = re.compile(r"(?<![\w.])(" + "|".join(re.escape(n) for n in names) + r")(?![\w])")
+    return pattern.sub(label, message)
 
 
 def _without_who(message: str) -> str:

@@ -132,7 +132,9 @@ class PartEditor(QDialog):
         layout.addWidget(splitter, 1)
         layout.addWidget(self.problems_label)
         layout.addWidget(self.buttons)
-        self.resize(1180, 760)
+        from partpick.gui.widgets import resize_within_screen
+
+        resize_within_screen(self, 1180, 760)
 
         self._preview = None
         self.model.field_changed.connect(self._update_field)

@@ -28,8 +28,22 @@ _GROUPS = (
     *ROLE_GROUPS.items(),  # each role's own table (group = the role's name)
     ("Filters", "Candidate filters"),
 )
-_PLACEHOLDER = {"V": "e.g. 12 V", "A": "e.g. 500 mA", "°C": "e.g. −20", "%": "e.g. 20", "K": "e.g. 25",
-                "K/W": "e.g. 80", "F": "e.g. 100 µF", "Ω": "e.g. 4.7k"}
+# An example per field, of the size that field usually holds (not one per unit: "Max leakage: e.g.
+# 500 mA" would mislead).
+PLACEHOLDERS = {
+    "name": "e.g. 24 V input protection", "supply_min_V": "e.g. 10.8 V", "supply_max_V": "e.g. 13.2 V",
+    "load_min_A": "e.g. 10 mA", "load_max_A": "e.g. 1.5 A", "ambient_min_C": "e.g. −40 °C",
+    "ambient_max_C": "e.g. 85 °C", "reverse_margin_pct": "policy's (e.g. 25 %)",
+    "tj_margin_K": "policy's (e.g. 25 K)", "current_derating_pct": "policy's (e.g. 70 %)",
+    "power_derating_pct": "policy's (e.g. 60 %)", "resistor_power_derating_pct": "policy's (e.g. 50 %)",
+    "current_limit_pct": "policy's (e.g. 70 %)", "power_limit_pct": "policy's (e.g. 60 %)",
+    "resistor_power_limit_pct": "policy's (e.g. 50 %)",
+    "reverse_V": "supply max (e.g. 30 V)", "reverse_transient_V": "e.g. 60 V", "max_forward_drop_V": "e.g. 600 mV",
+    "min_output_V": "e.g. 11 V", "max_leakage_A": "e.g. 100 µA", "rth_ja_K_per_W": "part's (e.g. 120 K/W)",
+    "inrush_capacitance_F": "e.g. 470 µF", "inrush_source_ohm": "e.g. 0.5 Ω", "max_price": "e.g. 0.25",
+    "target_V": "e.g. 5.1 V", "max_regulation_error_pct": "e.g. 5 %", "min_zener_current_A": "part's Izk (e.g. 1 mA)",
+    "resistor_tolerance_pct": "series' (e.g. 5 %)", "resistor_ohm": "sized (e.g. 470 Ω)",
+}
 
 
 class RequirementView(QScrollArea):
@@ -75,14 +89,13 @@ class RequirementView(QScrollArea):
             outer.addWidget(box)
         outer.addStretch(1)
         self.setWidget(body)
-        # No horizontal scrolling: the panel is never narrower than its widest row.
-        self.setMinimumWidth(body.minimumSizeHint().width() + self.verticalScrollBar().sizeHint().width() + 4)
         model.field_changed.connect(self._update_field)
         model.loaded.connect(self._update_all)
         model.role_changed.connect(self._update_role)
         # The mount shows its own keys (board: copper area; heatsink: interface and heatsink).
         model.field_changed.connect(lambda key: self._update_role(model.role) if key == "thermal.mount" else None)
         model.errors_changed.connect(self._update_form_error)
+        model.choices_changed.connect(self._update_choices)
         self._update_all()
 
     # -- building -----------------------------------------------------------
@@ -104,11 +117,18 @@ class RequirementView(QScrollArea):
                 combo.addItem("(default)", "")
                 for choice in spec.choices:
                     combo.addItem(choice, choice)
-            combo.activated.connect(lambda _i, k=spec.key, c=combo: self.model.set_text(k, c.currentData() or ""))
+            combo.activated.connect(lambda _i, k=spec.key, c=combo: self.model.edit_text(k, c.currentData() or ""))
             return combo
-        edit = FieldEdit(_PLACEHOLDER.get(spec.unit, ""), tip, parent)
+        if spec.kind == "list":
+            from partpick.gui.widgets import ChoiceList
+
+            chooser = ChoiceList(spec.help, parent)
+            chooser.setObjectName(f"field_{spec.key}")
+            chooser.edited.connect(lambda text, k=spec.key: self.model.edit_text(k, text))
+            return chooser
+        edit = FieldEdit(PLACEHOLDERS.get(spec.key, ""), tip, parent)
         edit.setObjectName(f"field_{spec.key}")
-        edit.edited.connect(lambda text, k=spec.key: self.model.set_text(k, text))
+        edit.edited.connect(lambda text, k=spec.key: self.model.edit_text(k, text))
         return edit
 
     def editor(self, key: str):
@@ -116,7 +136,14 @@ class RequirementView(QScrollArea):
         return self.editors[key]
 
     # -- model → widgets ----------------------------------------------------
+    def _update_choices(self) -> None:
+        for key, widget in self.editors.items():
+            if hasattr(widget, "set_choices"):
+                widget.set_choices(self.model.list_choices(key))
+                widget.set_text(self.model.text(key))
+
     def _update_all(self) -> None:
+        self._update_choices()
         self._update_policies()
         for key in self.editors:
             self._update_field(key)
@@ -159,6 +186,13 @@ class RequirementView(QScrollArea):
         self.groups["Zener"].setVisible(role == "zener_shunt")
         for name in ROLE_GROUPS:
             self.groups[name].setVisible(role == name)
+
+        # No horizontal scrolling: the panel is never narrower than its widest row — of the rows this
+        # role shows (the hidden groups of other roles must not widen it, as they did at 1366 px).
+        body = self.widget()
+        if body is not None:
+            body.adjustSize()
+            self.setMinimumWidth(body.minimumSizeHint().width() + self.verticalScrollBar().sizeHint().width() + 4)
 
     def _update_form_error(self) -> None:
         text = self.model.form_error if self.model.form_error and not self.model.form_error_key else ""

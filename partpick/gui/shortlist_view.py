@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 from PySide6.QtCore import QAbstractTableModel, QItemSelection, QItemSelectionModel, QModelIndex, Qt
-from PySide6.QtGui import QBrush
-from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QLabel, QTableView, QVBoxLayout, QWidget
+from PySide6.QtGui import QBrush, QGuiApplication
+from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QLabel, QMenu, QTableView, QVBoxLayout, QWidget
 
 from partpick.gui.models import KIND_WORDS, ResultModel, describe_corner
 from partpick.gui.widgets import FAIL_COLOR, PASS_COLOR, format_value, humanise
@@ -19,6 +19,11 @@ _PASS_BRUSH = QBrush(PASS_COLOR)
 _FAIL_BRUSH = QBrush(FAIL_COLOR)
 _RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
 _FIXED = ("Rank", "Part", "Kind", "Package", "Result", "First failing check")
+# The Zener shunt's chosen (or given) resistor and its power class, from the result's metrics (SPEC §6).
+_ZENER_FIXED = ("Rank", "Part", "Resistor", "Resistor class", "Kind", "Package", "Result", "First failing check")
+_ZENER_METRICS = {"Resistor": ("series_resistor_ohm", "Ω"), "Resistor class": ("resistor_power_class_W", "W")}
+# The commands of a shortlist row's context menu (the window binds them with `bind_actions`).
+CONTEXT_COMMANDS = ("shortlist.check_sheet", "shortlist.compare", "shortlist.substitutes", "report.export")
 # Optional columns: metric key → (header, unit, tooltip).
 _EXTRA_COLUMNS = {"max_ambient_C": ("Max ambient", "°C", "The highest ambient max at which every check passes "
                                                           "(operating limit; the first 20 candidates)")}
@@ -61,26 +66,87 @@ class ShortlistTableModel(QAbstractTableModel):
         self._checks: list[str] = []
         self._by_name: list[dict] = []
         self._texts: dict = {}
+        self._fixed: tuple[str, ...] = _FIXED
+        self._sort: tuple[str, Qt.SortOrder] = ("Rank", Qt.SortOrder.AscendingOrder)
         self._extra: tuple[str, ...] = ()  # optional metric columns after the fixed ones (`set_extra_columns`)
         model.changed.connect(self.refresh)
         self.refresh()
 
     def refresh(self) -> None:
         self.beginResetModel()
-        self._candidates = self._model.candidates
+        self._load()
+        self._apply_sort()
+        self.endResetModel()
+
+    def _load(self) -> None:
+        result = self._model.result or {}
+        role = (result.get("requirement") or {}).get("role", "series")
+        self._fixed = _ZENER_FIXED if role == "zener_shunt" else _FIXED
+        self._candidates = list(self._model.candidates)
         names: list[str] = []
         for candidate in self._candidates:
             for check in candidate["checks"]:
                 if check["name"] not in names:
                     names.append(check["name"])
         self._checks = names
-        self._by_name = [{c["name"]: c for c in candidate["checks"]} for candidate in self._candidates]
-        self._texts: dict = {}
+        self._texts = {}
+
+    # -- sorting (any column; check columns sort by margin, the number that decides) ----------------
+    def sort(self, column: int, order=Qt.SortOrder.AscendingOrder) -> None:  # noqa: D401 (Qt's name)
+        if not 0 <= column < self.columnCount():
+            return
+        self._sort = (self._column_name(column), order)
+        self.beginResetModel()
+        self._apply_sort()
         self.endResetModel()
+
+    def _column_name(self, column: int) -> str:
+        if column < len(self._fixed):
+            return self._fixed[column]
+        if column < self._first_check:
+            return self._extra[column - len(self._fixed)]
+        return self._checks[column - self._first_check]
+
+    def sort_column(self) -> int:
+        name = self._sort[0]
+        if name in self._fixed:
+            return self._fixed.index(name)
+        if name in self._extra:
+            return len(self._fixed) + self._extra.index(name)
+        return self._first_check + self._checks.index(name) if name in self._checks else 0
+
+    def _apply_sort(self) -> None:
+        name, order = self._sort
+        if name not in self._fixed and name not in self._checks and name not in self._extra:
+            name, order = "Rank", Qt.SortOrder.AscendingOrder
+        missing = float("inf") if order == Qt.SortOrder.AscendingOrder else float("-inf")
+
+        def key(candidate):
+            if name == "Rank":
+                return (candidate["rank"],)
+            if name == "Part":
+                return (candidate["part_number"].casefold(),)
+            if name in ("Kind", "Package"):
+                return ((candidate.get(name.lower()) or "").casefold(), candidate["rank"])
+            if name == "Result":
+                return (len(candidate["failed_checks"]), candidate["rank"])
+            if name == "First failing check":
+                return ((candidate["failed_checks"] or [""])[0], candidate["rank"])
+            if name in _ZENER_METRICS or name in self._extra:
+                key_ = _ZENER_METRICS[name][0] if name in _ZENER_METRICS else name
+                value = (candidate.get("metrics") or {}).get(key_)
+                return (missing if value is None else value, candidate["rank"])
+            check = next((c for c in candidate["checks"] if c["name"] == name), None)
+            margin = None if check is None else check.get("margin_pct")
+            return (missing if margin is None else margin, candidate["rank"])
+
+        self._candidates.sort(key=key, reverse=order == Qt.SortOrder.DescendingOrder)
+        self._by_name = [{c["name"]: c for c in candidate["checks"]} for candidate in self._candidates]
+        self._texts = {}
 
     @property
     def _first_check(self) -> int:
-        return len(_FIXED) + len(self._extra)
+        return len(self._fixed) + len(self._extra)
 
     def set_extra_columns(self, keys) -> None:
         """Show optional metric columns (`_EXTRA_COLUMNS`, e.g. ``max_ambient_C``) after the fixed ones."""
@@ -92,7 +158,7 @@ class ShortlistTableModel(QAbstractTableModel):
     def refresh_extra(self) -> None:
         """The optional columns' values arrived later than the result (operating limits)."""
         if self._extra and self._candidates:
-            self.dataChanged.emit(self.index(0, len(_FIXED)), self.index(len(self._candidates) - 1,
+            self.dataChanged.emit(self.index(0, len(self._fixed)), self.index(len(self._candidates) - 1,
                                                                          self._first_check - 1))
 
     def _extra_data(self, candidate: dict, key: str, role):
@@ -131,13 +197,18 @@ class ShortlistTableModel(QAbstractTableModel):
         if orientation != Qt.Orientation.Horizontal:
             return None
         if role == Qt.ItemDataRole.DisplayRole:
-            if len(_FIXED) <= section < self._first_check:
-                return _EXTRA_COLUMNS[self._extra[section - len(_FIXED)]][0]
-            return _FIXED[section] if section < len(_FIXED) else humanise(self._checks[section - self._first_check])
-        if role == Qt.ItemDataRole.ToolTipRole and len(_FIXED) <= section < self._first_check:
-            return _EXTRA_COLUMNS[self._extra[section - len(_FIXED)]][2]
+            fixed = self._fixed
+            if len(fixed) <= section < self._first_check:
+                return _EXTRA_COLUMNS[self._extra[section - len(fixed)]][0]
+            return fixed[section] if section < len(fixed) else humanise(self._checks[section - self._first_check])
+        if role == Qt.ItemDataRole.ToolTipRole and len(self._fixed) <= section < self._first_check:
+            return _EXTRA_COLUMNS[self._extra[section - len(self._fixed)]][2]
         if role == Qt.ItemDataRole.ToolTipRole and section >= self._first_check:
-            return f"Check {self._checks[section - self._first_check]}: worst-corner value · margin (% of the limit)"
+            return (f"Check {self._checks[section - self._first_check]}: worst-corner value · margin (% of the "
+                    "limit); click to sort by the margin")
+        if role == Qt.ItemDataRole.ToolTipRole and section < len(self._fixed) and self._fixed[section] in _ZENER_METRICS:
+            return {"Resistor": "The series resistor chosen from the E-series (or the fixed one given)",
+                    "Resistor class": "The resistor's standard power class [W]"}[self._fixed[section]]
         return None
 
     def data(self, index, role=Qt.ItemDataRole.DisplayRole):
@@ -145,10 +216,10 @@ class ShortlistTableModel(QAbstractTableModel):
             return None  # the view asks for a dozen roles per cell and repaint; answer the rest at once
         candidate = self._candidates[index.row()]
         column = index.column()
-        if column < len(_FIXED):
+        if column < len(self._fixed):
             return self._fixed_data(candidate, column, role)
         if column < self._first_check:
-            return self._extra_data(candidate, self._extra[column - len(_FIXED)], role)
+            return self._extra_data(candidate, self._extra[column - len(self._fixed)], role)
         check = self._by_name[index.row()].get(self._checks[column - self._first_check])
         if check is None:
             return "n/a" if role == Qt.ItemDataRole.DisplayRole else None
@@ -167,7 +238,15 @@ class ShortlistTableModel(QAbstractTableModel):
         return None
 
     def _fixed_data(self, candidate: dict, column: int, role):
-        name = _FIXED[column]
+        name = self._fixed[column]
+        if name in _ZENER_METRICS:
+            key, unit = _ZENER_METRICS[name]
+            value = (candidate.get("metrics") or {}).get(key)
+            if role == Qt.ItemDataRole.DisplayRole:
+                return format_value(value, unit) if value is not None else "—"
+            if role == Qt.ItemDataRole.TextAlignmentRole:
+                return _RIGHT
+            return None
         if role == Qt.ItemDataRole.DisplayRole:
             if name == "Rank":
                 return str(candidate["rank"])
@@ -218,6 +297,22 @@ class ShortlistView(QWidget):
         self.table.setWordWrap(False)
         self.table.horizontalHeader().setResizeContentsPrecision(200)  # size columns on a sample of rows
         layout.addWidget(self.table, 1)
+        # An empty result says why, in the table's place (SPEC §6: never a silent empty view).
+        self.empty_label = QLabel(self)
+        self.empty_label.setObjectName("shortlist_empty")
+        self.empty_label.setWordWrap(True)
+        self.empty_label.setAlignment(Qt.AlignmentFlag.AlignCenter)
+        self.empty_label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.empty_label.hide()
+        layout.addWidget(self.empty_label, 1)
+        header = self.table.horizontalHeader()
+        header.setSortIndicator(0, Qt.SortOrder.AscendingOrder)
+        self.table.setSortingEnabled(True)
+        self.table_model.modelReset.connect(self._update_selection)  # a sort resets the rows
+        self.table.setContextMenuPolicy(Qt.ContextMenuPolicy.CustomContextMenu)
+        self.table.customContextMenuRequested.connect(self._context_menu)
+        self._actions: dict = {}
+        self.context_menu: QMenu | None = None
         self._sized_for: tuple = ()
         self.table.selectionModel().selectionChanged.connect(self._selection_changed)
         model.changed.connect(self._update_rows)
@@ -226,7 +321,13 @@ class ShortlistView(QWidget):
 
     # -- model → widgets ----------------------------------------------------
     def _update_rows(self) -> None:
-        columns = tuple(self.table_model.check_names)
+        self._update_empty()
+        header = self.table.horizontalHeader()
+        if header.sortIndicatorSection() != self.table_model.sort_column():
+            header.blockSignals(True)
+            header.setSortIndicator(self.table_model.sort_column(), header.sortIndicatorOrder())
+            header.blockSignals(False)
+        columns = tuple(self.table_model.check_names) + (self.table_model.columnCount(),)
         if columns != self._sized_for and self.table_model.rowCount():
             # Size once per set of checks (a 10,000-row resize on every edit would cost more than the check).
             self.table.resizeColumnsToContents()
@@ -247,6 +348,12 @@ class ShortlistView(QWidget):
         selection_model.blockSignals(False)
         self.table.viewport().update()
 
+    def _update_empty(self) -> None:
+        reason = self.model.empty_reason
+        self.empty_label.setText(f"No candidates: {reason}." if reason else "")
+        self.empty_label.setVisible(bool(reason))
+        self.table.setVisible(not reason)
+
     def _update_banner(self) -> None:
         text = self.model.message if self.model.stale else ""
         self.banner.setText(text)
@@ -257,6 +364,28 @@ class ShortlistView(QWidget):
     def _selection_changed(self, *_args) -> None:
         rows = sorted({index.row() for index in self.table.selectionModel().selectedRows()})
         self.model.set_selected([self.table_model.candidate_at(row)["part_number"] for row in rows])
+
+    def bind_actions(self, actions: dict) -> None:
+        """The window's actions for the row context menu (one action, one behaviour)."""
+        self._actions = {k: actions[k] for k in CONTEXT_COMMANDS if k in actions}
+
+    def _context_menu(self, position) -> None:
+        index = self.table.indexAt(position)
+        if index.isValid() and not self.table.selectionModel().isRowSelected(index.row(), QModelIndex()):
+            self.select_rows([index.row()])
+        menu = self.context_menu = QMenu(self)
+        for command_id in CONTEXT_COMMANDS:
+            if command_id in self._actions:
+                menu.addAction(self._actions[command_id])
+        menu.addSeparator()
+        copy = menu.addAction("Copy part number")
+        copy.setObjectName("copy_part_number")
+        copy.triggered.connect(self.copy_part_numbers)
+        copy.setEnabled(bool(self.model.selected))
+        menu.popup(self.table.viewport().mapToGlobal(position))
+
+    def copy_part_numbers(self) -> None:
+        QGuiApplication.clipboard().setText("\n".join(self.model.selected))
 
     def select_rows(self, rows) -> None:
         """Select shortlist rows as a user's Ctrl+click would (tests and the compare command)."""

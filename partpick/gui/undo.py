@@ -12,7 +12,7 @@ from PySide6.QtGui import QUndoCommand
 
 from partpick.errors import InputError, LibraryError
 
-__all__ = ["SavePart", "DeleteParts", "take_error"]
+__all__ = ["SavePart", "DeleteParts", "take_error", "EditRequirementField", "ReplaceRequirement"]
 
 _last_error: list[str] = []
 
@@ -89,3 +89,56 @@ class DeleteParts(QUndoCommand):
             _record(exc)
             self.setObsolete(True)
         self._model.reload()
+
+
+class EditRequirementField(QUndoCommand):
+    """One field of the requirement form changed (typing on in one field extends the same step)."""
+
+    def __init__(self, model, key: str, old: str, new: str) -> None:
+        from partpick.gui.models import FIELDS_BY_KEY
+
+        super().__init__(f"Edit {FIELDS_BY_KEY[key].label}")
+        self._model = model
+        self.key = key
+        self._old = old
+        self._new = new
+        self._done = True  # pushed after the edit happened: the first redo has nothing to do
+
+    def extend(self, new: str) -> None:
+        """More typing in the same field: the step now ends at ``new``.
+
+        (Not QUndoCommand.mergeWith: Qt deletes the merged command inside ``push`` while Python still
+        owns its wrapper, which PySide6 then frees a second time.)
+        """
+        self._new = new
+
+    def redo(self) -> None:
+        if self._done:
+            self._done = False
+            return
+        self._model.set_text(self.key, self._new)
+        self._model.modified = True
+
+    def undo(self) -> None:
+        self._model.set_text(self.key, self._old)
+        self._model.modified = True
+
+
+class ReplaceRequirement(QUndoCommand):
+    """The whole requirement replaced (new requirement, opened file); undo puts the previous one back."""
+
+    def __init__(self, model, text: str, before: dict, after: dict) -> None:
+        super().__init__(text)
+        self._model = model
+        self._before = before
+        self._after = after
+        self._done = True
+
+    def redo(self) -> None:
+        if self._done:
+            self._done = False
+            return
+        self._model.restore(self._after)
+
+    def undo(self) -> None:
+        self._model.restore(self._before)

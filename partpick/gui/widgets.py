@@ -20,7 +20,7 @@ CHANGED_COLOR = QColor(230, 160, 30, 80)
 
 def format_value(value, unit: str = "", digits: int = 3) -> str:
     """A result number as the report shows it (engineering notation, the report layer's formatter)."""
-    from partpick.checks.curves import format_engineering
+    from partpick.units import format_engineering
 
     if value is None:
         return "—"
@@ -93,3 +93,111 @@ class FieldEdit(QWidget):
     @property
     def error(self) -> str:
         return self._error
+
+
+class ChoiceList(QWidget):
+    """A list filter picked from the values the library holds: a button with a checkable menu.
+
+    The text it edits is the requirement's list as comma-separated words (``"schottky, rectifier"``);
+    nothing is typed, so nothing can be misspelt. ``edited(text)`` on every tick.
+    """
+
+    edited = Signal(str)
+
+    def __init__(self, tooltip: str = "", parent=None) -> None:
+        from PySide6.QtWidgets import QHBoxLayout, QMenu, QSizePolicy, QToolButton
+
+        super().__init__(parent)
+        layout = QHBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        self.button = QToolButton(self)
+        self.button.setPopupMode(QToolButton.ToolButtonPopupMode.InstantPopup)
+        self.button.setSizePolicy(QSizePolicy.Policy.Expanding, QSizePolicy.Policy.Fixed)
+        self.button.setToolTip(tooltip)
+        self.menu = QMenu(self.button)
+        self.button.setMenu(self.menu)
+        layout.addWidget(self.button)
+        self._tooltip = tooltip
+        self._choices: tuple = ()
+        self._chosen: list[str] = []
+        self._error = ""
+        self._rebuild()
+
+    def set_choices(self, choices) -> None:
+        choices = tuple(choices)
+        if choices != self._choices:
+            self._choices = choices
+            self._rebuild()
+
+    def choices(self) -> tuple:
+        return self._choices
+
+    def _rebuild(self) -> None:
+        self.menu.clear()
+        if not self._choices:
+            none = self.menu.addAction("(the library holds no values for this)")
+            none.setEnabled(False)
+        for value in self._choices:
+            action = self.menu.addAction(value.replace("_", " "))
+            action.setCheckable(True)
+            action.setChecked(value in self._chosen)
+            action.setData(value)
+            action.toggled.connect(lambda checked, v=value: self._toggled(v, checked))
+        self.menu.addSeparator()
+        clear = self.menu.addAction("Any (no filter)")
+        clear.triggered.connect(lambda: self._set_chosen([], emit=True))
+        self._show()
+
+    def _toggled(self, value: str, checked: bool) -> None:
+        chosen = [v for v in self._chosen if v != value] + ([value] if checked else [])
+        self._set_chosen(chosen, emit=True)
+
+    def _set_chosen(self, chosen: list[str], *, emit: bool) -> None:
+        if chosen == self._chosen:
+            return
+        self._chosen = list(chosen)
+        for action in self.menu.actions():
+            if action.isCheckable():
+                action.blockSignals(True)
+                action.setChecked(action.data() in self._chosen)
+                action.blockSignals(False)
+        self._show()
+        if emit:
+            self.edited.emit(self.text())
+
+    def choose(self, values) -> None:
+        """Tick exactly these values, as a user's clicks would (tests, and the model's text)."""
+        self._set_chosen([v for v in values], emit=True)
+
+    def _show(self) -> None:
+        self.button.setText(", ".join(v.replace("_", " ") for v in self._chosen) if self._chosen else "Any")
+
+    def text(self) -> str:
+        return ", ".join(self._chosen)
+
+    def set_text(self, text: str) -> None:
+        words = [w.strip() for w in text.split(",") if w.strip()]
+        self._set_chosen(words, emit=False)
+
+    def set_error(self, error: str) -> None:
+        if error == self._error:
+            return
+        self._error = error
+        self.button.setStyleSheet(f"QToolButton {{ border: 2px solid {ERROR_COLOR.name()}; }}" if error else "")
+        self.button.setToolTip(f"{error}\n\n{self._tooltip}" if error else self._tooltip)
+
+    @property
+    def error(self) -> str:
+        return self._error
+
+
+def resize_within_screen(widget: QWidget, width: int, height: int) -> None:
+    """Resize to ``width`` × ``height``, but never beyond the screen's available area (a 1366 × 768
+    laptop keeps its task bar; the dialog's own layout scrolls)."""
+    from PySide6.QtGui import QGuiApplication
+
+    screen = widget.screen() or QGuiApplication.primaryScreen()
+    if screen is not None:
+        area = screen.availableGeometry()
+        width, height = min(width, area.width() - 24), min(height, area.height() - 56)
+    widget.resize(width, height)

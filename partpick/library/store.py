@@ -578,8 +578,9 @@ class Library:
                 for name in MODEL_FIELDS:
                     merged[name] = None
                 merged["model_source"] = None
-            elif new_model and "model_source" not in row.columns:
-                merged["model_source"] = None  # decided again: entered, or fitted when the model was cleared
+            elif new_model and ("model_source" not in row.columns or part["model_source"] == old["model_source"]):
+                # Decided again (an edited model is no longer the fit): entered, or fitted when it was cleared.
+                merged["model_source"] = None
         if merged["vf_points"] and all(merged[name] is None for name in MODEL_FIELDS) and isinstance(number, str):
             fitting.add(number)
         return merged

@@ -16,6 +16,7 @@ from partpick.plots.draw import (
     draw_power,
     draw_section,
     draw_zener_output,
+    legend_entries,
     redraw,
     redraw_section,
 )
@@ -25,7 +26,7 @@ from partpick.plots.sensitivity import draw_sensitivity
 
 __all__ = [
     "EngineeringAxis", "log_tick_text", "SECTION_NAMES", "DrawnItems", "clear_items", "redraw", "redraw_section", "draw_breakdown", "draw_forward",
-    "draw_iv", "draw_junction_temperature", "draw_power", "draw_section", "draw_zener_output",
+    "draw_iv", "draw_junction_temperature", "draw_power", "draw_section", "draw_zener_output", "legend_entries",
     "ensure_qapp", "export_png", "export_svg", "section_png", "section_widget", "CursorReadout", "readout_text",
     "draw_sensitivity",
 ]

@@ -41,6 +41,27 @@ class EngineeringAxis(pg.AxisItem):
     def logTickStrings(self, values, scale, spacing):  # noqa: N802 (pyqtgraph's name)
         return [log_tick_text(float(10.0 ** v) * scale) for v in np.asarray(values, dtype=float)]
 
+    def updateAutoSIPrefix(self):  # noqa: N802 (pyqtgraph's name)
+        """No prefix scale at all while the auto prefix is off.
+
+        pyqtgraph's own version computes a scale from the current range even when the prefix is
+        switched off (``enableAutoSIPrefix(False)`` calls it), and that scale then multiplies every
+        tick: a log axis switched off while it showed mA data kept a ×1000 for good, so the next
+        role's currents read 1 … 10k instead of 1m … 10.
+        """
+        if self.autoSIPrefix:
+            super().updateAutoSIPrefix()
+            return
+        self.autoSIPrefixScale = 1.0
+        self.labelUnitPrefix = ""
+        self._updateLabel()
+
+
+# Major and minor ticks only (pyqtgraph draws a third level by default): every tick level is also a
+# level of grid lines across the whole plot, and painting the axis pictures was the largest share
+# of a redraw — a third fewer lines per axis, the scale as readable.
+MAX_TICK_LEVEL = 1
+
 
 def install_axes(plot_item: pg.PlotItem) -> None:
     """Give ``plot_item`` `EngineeringAxis` axes (once; later calls keep them)."""
@@ -49,6 +70,7 @@ def install_axes(plot_item: pg.PlotItem) -> None:
         axis = plot_item.getAxis(name)
         if not isinstance(axis, EngineeringAxis):
             replace[name] = EngineeringAxis(name, pen=axis.pen(), textPen=axis.textPen())
+            replace[name].setStyle(maxTickLevel=MAX_TICK_LEVEL)
     if replace:
         plot_item.setAxisItems(replace)
 
@@ -57,7 +79,8 @@ def set_axis(plot_item: pg.PlotItem, name: str, title: str, unit: str, *, log: b
     """Label an axis with its base unit; on a log axis (or a unit without prefixes) no auto SI prefix."""
     axis = plot_item.getAxis(name)
     prefixable = not log and unit not in _NO_PREFIX_UNITS
-    if axis.labelText == (title or "") and axis.labelUnits == (unit or "") and axis.autoSIPrefix == prefixable:
+    if axis.labelText == (title or "") and axis.labelUnits == (unit or "") and axis.autoSIPrefix == prefixable \
+            and (prefixable or axis.autoSIPrefixScale == 1.0):
         return  # already so (a redraw): re-setting it would only rebuild the label's rich text
     axis.enableAutoSIPrefix(prefixable)
     axis.setLabel(title, units=unit or None)

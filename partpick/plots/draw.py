@@ -17,7 +17,7 @@ from PySide6 import QtCore
 from partpick.plots.axes import install_axes, set_axis
 
 __all__ = ["DrawnItems", "draw_section", "redraw_section", "redraw", "draw_forward", "draw_breakdown", "draw_iv", "draw_zener_output",
-           "draw_junction_temperature", "draw_power", "clear_items", "SECTION_NAMES"]
+           "draw_junction_temperature", "draw_power", "clear_items", "SECTION_NAMES", "legend_entries"]
 
 SECTION_NAMES = ("forward", "breakdown", "zener_output", "junction_temperature", "power")
 
@@ -178,7 +178,9 @@ def _update(plot_item: pg.PlotItem, entry: dict, old: dict, items: list) -> None
         if entry["label"] != old["label"]:
             items[0].label.setFormat(_line_label(entry["label"]))
         return
-    if entry["label"] != old["label"] and plot_item.legend is not None:
+    # A hidden legend (the window shows its own, outside the plots) is not kept up to date: every
+    # label is rich text, rebuilt at each edit for nothing.
+    if entry["label"] != old["label"] and plot_item.legend is not None and plot_item.legend.isVisible():
         label = plot_item.legend.getLabel(named)
         if label is not None:
             label.setText(html.escape(entry["label"]))
@@ -196,6 +198,23 @@ def _setup(plot_item, section, log_x, log_y, title, legend):
         if text != plot_item.titleLabel.text or not plot_item.titleLabel.isVisible():
             plot_item.setTitle(text)
     _legend(plot_item, legend)
+
+
+def _fit_view(plot_item: pg.PlotItem, section: dict, log_y: bool) -> None:
+    """Fit the view to the data; a section with an allowed band is ranged to the band instead.
+
+    The Zener output rises from 0 V before it regulates, so auto-ranging on the whole curve squashes
+    the band (a few % of the target) into a line; the band with some room around it is what is read.
+    """
+    band = section.get("band")
+    if band is None or log_y or not (band["high"] > band["low"]):
+        plot_item.enableAutoRange()
+        return
+    pad = max(1.5 * (band["high"] - band["low"]), 0.02 * abs(band["high"]))
+    plot_item.enableAutoRange(axis="x")
+    plot_item.disableAutoRange(axis="y")
+    plot_item.setYRange(max(band["low"] - pad, 0.0) if band["low"] >= 0 else band["low"] - pad,
+                        band["high"] + pad, padding=0)
 
 
 def draw_section(plot_item: pg.PlotItem, section: dict | None, *, log_x: bool = False, log_y: bool = False,
@@ -238,7 +257,7 @@ def draw_section(plot_item: pg.PlotItem, section: dict | None, *, log_x: bool = 
         items.extend(created)
         groups.append(len(created))
     if auto_range:
-        plot_item.enableAutoRange()
+        _fit_view(plot_item, section, log_y)
     signature = (log_x, log_y, title, legend, tuple((e["kind"], e["role"]) for e in plan))
     return DrawnItems(items, plan, signature, groups)
 
@@ -264,12 +283,46 @@ def redraw_section(plot_item: pg.PlotItem, section: dict | None, previous: list 
                 start += count
             previous.plan = plan
             if auto_range:
-                plot_item.enableAutoRange()
+                _fit_view(plot_item, section, log_y)
             return previous
     if previous:
         clear_items(plot_item, previous)
     return draw_section(plot_item, section, log_x=log_x, log_y=log_y, title=title, legend=legend,
                         auto_range=auto_range)
+
+
+_STYLE_GLYPHS = {_SOLID: "━━━", _DASH: "╺╸╺╸", _DOT: "┅┅┅", _DASHDOT: "━·━"}
+
+
+def legend_entries(items: list) -> list[tuple[str, str, str]]:
+    """What a legend shows for drawn items: ``(glyph, colour "#rrggbb", label)`` per named entry.
+
+    The window lays these out beside the plots (outside the plot area, so a legend never hides a
+    curve); the glyph imitates the line style or the marker.
+    """
+    if not isinstance(items, DrawnItems):
+        return []
+    out = []
+    start = 0
+    for entry, count in zip(items.plan, items.groups):
+        group = items[start:start + count]
+        start += count
+        if entry["kind"] in ("hline", "vline"):
+            continue  # lines carry their own label on the plot
+        if entry["kind"] == "band":
+            out.append(("▮", "#%02x%02x%02x" % _GREEN, entry["label"]))
+            continue
+        item = group[0]
+        if entry["kind"] == "points":
+            pen = pg.mkPen(item.opts.get("symbolPen"))
+            glyph = "■" if item.opts.get("symbol") == "s" else "●"
+            brush = item.opts.get("symbolBrush")
+            colour = pg.mkBrush(brush).color() if brush is not None else pen.color()
+            out.append((glyph, colour.name(), entry["label"]))
+            continue
+        pen = pg.mkPen(item.opts.get("pen"))
+        out.append((_STYLE_GLYPHS.get(pen.style(), "━━━"), pen.color().name(), entry["label"]))
+    return out
 
 
 def clear_items(plot_item: pg.PlotItem, items: list) -> None:

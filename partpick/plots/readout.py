@@ -7,7 +7,7 @@ from collections.abc import Callable
 
 import pyqtgraph as pg
 
-from partpick.checks.curves import format_engineering
+from partpick.units import format_engineering
 
 __all__ = ["CursorReadout", "readout_text"]
 

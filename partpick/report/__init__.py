@@ -53,7 +53,7 @@ def render(result: dict, fmt: str, *, parts_by_number: dict, requirement, review
     from partpick.report import plain
 
     if fmt == "table":
-        return plain.render_table(result, parts_by_number)
+        return plain.render_table(result, parts_by_number, part=part)
     if fmt == "json":
         return plain.render_json(result)
     if fmt == "csv":

@@ -14,6 +14,7 @@ from partpick.report.words import (
     METRIC_ORDER,
     ROLE_LABELS,
     clean_text,
+    corner_text,
     first_failing,
     format_value,
     metric_unit,
@@ -21,7 +22,7 @@ from partpick.report.words import (
 )
 
 __all__ = ["render_json", "render_csv", "render_table", "guard_cell", "find_non_finite", "shortlist_rows",
-           "pass_count_text", "delta_text"]
+           "pass_count_text", "delta_text", "check_sheet_lines"]
 
 
 # --- JSON --------------------------------------------------------------------------------------
@@ -195,6 +196,42 @@ def delta_text(value, key: str) -> str:
     return clean_text(_delta_cell(value))
 
 
+def check_sheet_lines(candidate: dict) -> list[str]:
+    """One part's check sheet as text: every check with its worst value, limit, result and margin,
+    worst corner and limit source, then the worst-case metrics (``check --part P --format table``)."""
+    verdict = "passes every check" if candidate.get("passed") else \
+        "fails: " + ", ".join(CHECK_LABELS.get(n, n) for n in candidate.get("failed_checks") or [])
+    lines = [f"Check sheet: {clean_text(candidate.get('part_number'))} (rank {candidate.get('rank')}, "
+             f"{clean_text(candidate.get('kind'))}, {clean_text(candidate.get('package') or '—')}): {verdict}", ""]
+    header = ["Check", "Worst value", "Limit", "Result", "Margin", "Worst corner", "Limit source"]
+    rows = []
+    for check in candidate.get("checks", []):
+        unit = check.get("unit") or ""
+        value = format_value(check.get("value"), unit) if check.get("value") is not None else \
+            f"— ({clean_text(check.get('reason') or 'not computable')})"
+        rows.append([CHECK_LABELS.get(check.get("name"), clean_text(check.get("name"))), value,
+                     format_value(check.get("limit"), unit), "pass" if check.get("passed") else "FAIL",
+                     _margin_text(check.get("margin_pct")), corner_text(check.get("corner")),
+                     clean_text(check.get("limit_source") or "")])
+    lines += _aligned(header, rows, numeric={1, 2, 4})
+    metrics = candidate.get("metrics") or {}
+    keys = [k for k in METRIC_ORDER if k in metrics] + sorted(set(metrics) - set(METRIC_ORDER))
+    if keys:
+        lines += ["", "Worst-case values:"]
+        lines += _aligned(["Metric", "Value"], [[METRIC_LABELS.get(k, k), format_value(metrics[k], metric_unit(k))]
+                                                for k in keys], numeric={1})
+    return lines
+
+
+def _aligned(header: list[str], rows: list[list[str]], numeric=frozenset()) -> list[str]:
+    widths = [max(len(r[i]) for r in [header] + rows) for i in range(len(header))]
+
+    def fmt(row):
+        return "  ".join((c.rjust(w) if i in numeric else c.ljust(w)) for i, (c, w) in enumerate(zip(row, widths))).rstrip()
+
+    return [fmt(header), "  ".join("-" * w for w in widths)] + [fmt(r) for r in rows]
+
+
 def limits_lines(candidates: list[dict]) -> list[str]:
     """The operating limits and the largest sensitivity of each candidate that has them (SPEC §3a)."""
     out = []
@@ -214,7 +251,7 @@ def limits_lines(candidates: list[dict]) -> list[str]:
     return out
 
 
-def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
+def render_table(result: dict, parts_by_number: dict | None = None, *, part: str | None = None) -> bytes:
     """The ranked shortlist as an aligned text table for a terminal."""
     req = result.get("requirement") or {}
     policy = result.get("policy") or {}
@@ -251,6 +288,10 @@ def render_table(result: dict, parts_by_number: dict | None = None) -> bytes:
         lines += limits_lines(result.get("candidates", []))
     else:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
+    subject = next((c for c in result.get("candidates", []) if c.get("part_number") == part), None) \
+        if part is not None else None
+    if subject is not None:
+        lines += [""] + check_sheet_lines(subject)
     lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
                   "and measurements."]
     lines += [f"CAUTION: {clean_text(c)}" for c in result.get("cautions") or []]

@@ -31,7 +31,7 @@ from partpick.report.words import (
     metric_unit,
 )
 
-__all__ = ["review_html", "subject_candidate", "curve_images", "IMAGE_PLOTS"]
+__all__ = ["review_html", "subject_candidate", "curve_images", "IMAGE_PLOTS", "check_sheet_html"]
 
 # Which plots the report shows per role: (image name, caption, draw function name, options).
 IMAGE_PLOTS = {
@@ -58,6 +58,7 @@ table { border-collapse: collapse; margin-bottom: 6pt; font-size: 7.5pt; }
 th { background-color: #e4e8ee; text-align: left; }
 td, th { padding: 2pt 4pt; vertical-align: top; }
 td.num { text-align: right; }
+.shortlist table { font-size: 7pt; }
 .fail { color: #b00000; font-weight: bold; }
 .pass { color: #106010; font-weight: bold; }
 .caution { background-color: #fff4d6; border: 1px solid #d9a400; padding: 4pt; }
@@ -96,6 +97,38 @@ def _table(header: list[str] | None, rows: list[list[str]], numeric: set[int] = 
         out.append("</tr>")
     out.append("</table>")
     return "".join(out)
+
+
+def _failing_name(text: str) -> str:
+    """The first failing check's name alone ("Junction temperature (−44.2 %) +1 more" → its name, and
+    "+1 more" kept): its margin is in the margin column, and a narrow column wraps less."""
+    name, _, rest = text.partition(" (")
+    more = rest.rsplit(" +", 1)
+    return name + (f" +{more[1]}" if len(more) == 2 else "")
+
+
+def shortlist_widths(header: list[str], rows: list[list[str]]) -> list[int]:
+    """Column widths [%] of the report's shortlist, from what each column must hold unbroken.
+
+    A column is at least as wide as its longest header word and its longest cell (numbers keep
+    their unit on the same line), so Qt's layout never breaks a heading mid-word ("Dissipati on");
+    the widths are shares of the page, summing to 100.
+    """
+    def longest_word(text: str) -> int:
+        return max((len(w) for w in str(text).split()), default=1)
+
+    need = []
+    for i, title in enumerate(header):
+        cells = [r[i] for r in rows if i < len(r)]
+        # Headings and part numbers are bold (about a third wider); every cell has its padding.
+        words = max([1.2 * longest_word(title)] + [(1.2 if i == 1 else 1.0) * longest_word(c) for c in cells])
+        # A number with its unit stays on one line; text columns (part, result) wrap at spaces.
+        whole = max([len(c) for c in cells] or [1]) if i >= 3 else 0
+        need.append(max(words, whole, 2) + 1.0)
+    total = float(sum(need))
+    widths = [max(3, int(round(100 * n / total))) for n in need]
+    widths[max(range(len(widths)), key=lambda i: widths[i])] += 100 - sum(widths)
+    return widths
 
 
 def _shortlist_widths(columns: int) -> list[int]:
@@ -247,6 +280,17 @@ def _check_sheet(candidate: dict, part_record: dict | None) -> str:
     return _table(header, rows, numeric={1, 2}, raw=True, widths=[17, 12, 10, 12, 17, 18, 14])
 
 
+def check_sheet_html(candidate: dict, part_record: dict | None) -> str:
+    """One part's check sheet as an HTML fragment (the report's, for the window's check-sheet view)."""
+    verdict = "passes every check" if candidate.get("passed") else \
+        "fails: " + ", ".join(CHECK_LABELS.get(n, n) for n in candidate.get("failed_checks") or [])
+    return (f"<style>{_STYLE}</style><h2>Check sheet: {e(candidate['part_number'])}</h2>"
+            f"<p>Rank {e(candidate.get('rank'))}, {e(candidate.get('kind'))}, package "
+            f"{e(candidate.get('package'))}: <b>{e(verdict)}</b>.</p>"
+            + _check_sheet(candidate, part_record) + "<h3>Worst-case values</h3>" + _metrics_table(candidate)
+            + '<p class="caution"><b>Caution.</b> ' + " ".join(e(c) for c in CAUTIONS) + "</p>")
+
+
 def _limits_section(candidate: dict, sensitivity_img: str | None) -> str:
     """Operating limits and "what sets the worst case" of the check sheet (SPEC §3a)."""
     block = candidate.get("operating_limits") or {}
@@ -382,15 +426,27 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         # under the result.
         cells = []
         for row in rows:
-            rank, number, kind, package, verdict, failing, margin, *rest = [e(x) for x in row]
+            # Numbers keep their unit on their line (a no-break space), so a column never breaks "122.9 °C".
+            row = list(row)
+            row[5] = _failing_name(row[5])
+            rank, number, kind, package, verdict, failing, margin, *rest = \
+                [e(x) if i in (1, 2, 3, 4, 5) else e(x).replace(" ", "&nbsp;") for i, x in enumerate(row)]
             cls = "pass" if verdict == "pass" else "fail"
-            cells.append([rank, f'<b>{number}</b><br/><span class="small">{kind}, {package}</span>',
+            *values, price, lifecycle = rest
+            # Kind, package, price and lifecycle under the part number: two columns fewer, so the
+            # numbers keep room on a portrait page.
+            cells.append([rank, f'<b>{number}</b><br/><span class="small">{kind}, {package}<br/>'
+                                f'{price} · {lifecycle}</span>',
                           f'<span class="{cls}">{verdict}</span>'
                           + (f'<br/><span class="small">{failing}</span>' if failing != "—" else ""),
-                          margin, *rest])
-        out.append(_table(["#", "Part", "Result, first failing check"] + header[6:], cells,
-                          numeric={0} | set(range(3, len(header) - 4)), raw=True,
-                          widths=_shortlist_widths(len(header) - 3)))
+                          margin, *values])
+        # What each column must hold unbroken: the part number (the rest wraps beneath it), the
+        # words of the first failing check, the numbers with their units.
+        short = [[r[0], r[1], f"{r[4]} {_failing_name(r[5])}"] + r[6:-2] for r in rows]
+        titles = ["#", "Part", "Result, first failing check"] + header[6:-2]
+        out.append('<div class="shortlist">' + _table(titles, cells,
+                   numeric={0} | set(range(3, len(titles))), raw=True,
+                   widths=shortlist_widths(titles, short)) + "</div>")
     else:
         out.append("<p>No candidates.</p>")
     if any(c.get("deltas") for c in candidates):

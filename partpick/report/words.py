@@ -5,7 +5,8 @@ from __future__ import annotations
 import math
 import re
 
-from partpick.checks.curves import corner_label, format_engineering
+from partpick.checks.curves import corner_label
+from partpick.units import format_engineering
 
 __all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
            "clean_text", "CAUTIONS", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",

@@ -32,7 +32,7 @@ def dark_palette():
     return palette
 
 
-def main(out: Path, *, dark: bool = False) -> None:
+def main(out: Path, *, dark: bool = False, size: tuple[int, int] = (1366, 768), suffix: str = "") -> None:
     from PySide6.QtCore import QSettings
     from PySide6.QtWidgets import QApplication
 
@@ -53,29 +53,57 @@ def main(out: Path, *, dark: bool = False) -> None:
     library.import_csv(ROOT / "resources" / "example_library" / "parts.csv")
     bench = Workbench(library)
     window = MainWindow(bench, settings=QSettings(str(work / "settings.ini"), QSettings.Format.IniFormat))
-    window.resize(1600, 960)
+    window.resize(*size)
     window.show()
 
     def settle():
         for _ in range(10):
             app.processEvents()
 
+    def shot(widget, name):
+        widget.grab().save(str(out / f"{name}{suffix}.png"))
+
     load_requirement_file(bench, ROOT / "resources" / "requirements" / "reverse_polarity_24V.toml")
     window.rechecker.run_now()
     window.shortlist.select_rows([0, 1])
     settle()
-    window.grab().save(str(out / "series_shortlist_curves.png"))
+    shot(window, "series_shortlist_curves")
 
     window.curves.tabs.setCurrentWidget(window.curves.pages["junction_temperature"])
     settle()
-    window.grab().save(str(out / "series_junction_temperature.png"))
+    shot(window, "series_junction_temperature")
+    window.curves.tabs.setCurrentWidget(window.curves.pages["iv"])
+
+    bench.requirement.edit_text("packages", "XYZ-99")  # an empty result says why
+    window.rechecker.run_now()
+    settle()
+    shot(window, "empty_shortlist")
+    bench.requirement.edit_text("packages", "")
 
     load_requirement_file(bench, ROOT / "resources" / "requirements" / "zener_5V1_reference.toml")
     window.rechecker.run_now()
     window.shortlist.select_rows([0])
     window.curves.tabs.setCurrentWidget(window.curves.pages["zener_output"])
     settle()
-    window.grab().save(str(out / "zener_output_vs_supply.png"))
+    shot(window, "zener_output_vs_supply")
+    window.curves.tabs.setCurrentWidget(window.curves.pages["iv"])
+    settle()
+    shot(window, "zener_iv")
+
+    from partpick.gui.compare_view import SubstitutesDialog
+    from partpick.gui.dialogs import CheckSheetDialog
+
+    substitutes = SubstitutesDialog(bench, bench.result.candidates[0]["part_number"], window)
+    substitutes.show()
+    settle()
+    shot(substitutes, "substitutes")
+    substitutes.close()
+    sheet = CheckSheetDialog(bench.result.result, bench.result.candidates[0]["part_number"],
+                             bench.library.get_part(bench.result.candidates[0]["part_number"]), window)
+    sheet.show()
+    settle()
+    shot(sheet, "check_sheet")
+    sheet.close()
 
     load_requirement_file(bench, ROOT / "resources" / "requirements" / "ac_mains_front_end.toml")
     window.rechecker.run_now()
@@ -88,17 +116,19 @@ def main(out: Path, *, dark: bool = False) -> None:
 
     window.shortlist.select_rows([0, 1, 2])
     compare = CompareDialog(bench, bench.result.selected, window)
+    compare.resize(min(compare.width(), size[0] - 24), min(680, size[1] - 56))
     compare.show()
     settle()
-    compare.grab().save(str(out / "compare.png"))
+    shot(compare, "compare")
     compare.close()
 
     part = next(p for p in bench.library.parts if p.get("vf_points"))
     editor = PartEditor(part, title=f"Edit {part['part_number']}", existing=bench.library.part_numbers(),
                         parent=window)
+    editor.resize(min(1180, size[0] - 24), min(760, size[1] - 56))  # as on a screen of `size`
     editor.show()
     settle()
-    editor.grab().save(str(out / "part_editor.png"))
+    shot(editor, "part_editor")
     editor.close()
 
     dispose_window(window)
@@ -107,5 +137,13 @@ def main(out: Path, *, dark: bool = False) -> None:
 
 
 if __name__ == "__main__":
-    arguments = [a for a in sys.argv[1:] if a != "--dark"]
-    main(Path(arguments[0]) if arguments else Path(__file__).resolve().parent, dark="--dark" in sys.argv)
+    import argparse
+
+    parser = argparse.ArgumentParser(description="Take the window's screenshots offscreen.")
+    parser.add_argument("out", nargs="?", default=str(Path(__file__).resolve().parent))
+    parser.add_argument("--dark", action="store_true", help="a dark system palette")
+    parser.add_argument("--size", default="1366x768", help="window size WxH (default 1366x768)")
+    parser.add_argument("--suffix", default="", help="added to every file name (e.g. _dark)")
+    args = parser.parse_args()
+    width, height = (int(v) for v in args.size.lower().split("x"))
+    main(Path(args.out), dark=args.dark, size=(width, height), suffix=args.suffix)

@@ -210,10 +210,22 @@ def _part_value(part, key):
     return schottky if part["kind"] == "schottky" else pn
 
 
-@pytest.mark.parametrize("make", ["series", "zener"])
+def _heatsink_part(**changes):
+    part = make_part(part_number="HS-1", kind="rectifier", package="TO-220", vrrm_V=200.0, if_avg_A=10.0,
+                     tj_max_C=175.0, rth_jc_K_per_W=2.0, rth_ja_K_per_W=60.0, is_A=1e-9, n=1.5, rs_ohm=0.01,
+                     rs_temp_exponent=0.0, ir_A=1e-6, ir_vr_V=200.0)
+    part.update(changes)
+    return part
+
+
+@pytest.mark.parametrize("make", ["series", "zener", "heatsink"])
 def test_sensitivities_agree_with_finite_differences_of_two_full_runs(make):
     if make == "series":
         req, parts = _series_requirement(), _series_parts()
+    elif make == "heatsink":  # the mount's own values are inputs too ([thermal].rth_sa_K_per_W, rth_cs_K_per_W)
+        req = _series_requirement(load_min_A=1.0, load_max_A=5.0,
+                                  thermal={"mount": "heatsink", "rth_cs_K_per_W": 1.0, "rth_sa_K_per_W": 12.0})
+        parts = [_heatsink_part(), _heatsink_part(part_number="HS-2", rth_jc_K_per_W=3.5, is_A=3e-9)]
     else:  # review mode: the resistor is the requirement's, so every run holds it without the hook
         req, parts = _zener_requirement(resistor_ohm=820.0), _zener_parts()
     result = run_check(req, parts)
@@ -244,7 +256,10 @@ def test_sensitivities_agree_with_finite_differences_of_two_full_runs(make):
                                                     - _smallest(runs[1]["candidates"][0]))
             assert e["margin_change_pct"] == pytest.approx(expected, rel=1e-6, abs=1e-9)
             compared += 1
-    assert compared >= 10
+    assert compared >= (10 if make != "heatsink" else 6)
+    if make == "heatsink":
+        inputs = {e["input"] for c in result["candidates"] for e in c["sensitivity"]}
+        assert "thermal.rth_sa_K_per_W" in inputs
 
 
 @pytest.mark.parametrize("name", ["solenoid_valve_24V_zener.toml", "surge_input_24V.toml"])

@@ -72,7 +72,13 @@ class ScriptedPrompt:
         self.helped = 0
         self.cancel_after = None  # progress calls before "Cancel" is pressed
         self.progress_calls = 0
+        self.progress_log: list = []  # (seconds since the work started, done, total)
         self.exported: list = []
+        self.choices: list = []  # queued answers of `choose`
+        self.asked: list = []  # (title, text, choices) of every `choose`
+        self.quit_answer = None  # the answer to "unsaved changes, quit?" when none is queued
+        self.cautions: list = []  # first_run flags of every cautions display
+        self.check_sheets: list = []
         self.window = None
 
     def open_path(self, title, filter):
@@ -90,6 +96,22 @@ class ScriptedPrompt:
     def confirm(self, title, text):
         return self.confirmations.pop(0) if self.confirmations else False
 
+    def choose(self, title, text, choices):
+        self.asked.append((title, text, list(choices)))
+        if self.choices:
+            return self.choices.pop(0)
+        return self.quit_answer if title == "Quit" else None
+
+    def show_cautions(self, first_run=False):
+        self.cautions.append(first_run)
+
+    def show_check_sheet(self, result, part_number):
+        self.check_sheets.append(part_number)
+        if self.window is not None:
+            from partpick.gui.main_window import WindowPrompt
+
+            WindowPrompt(self.window).show_check_sheet(result, part_number)
+
     def show_error(self, title, text):
         self.errors.append((title, text))
 
@@ -100,8 +122,13 @@ class ScriptedPrompt:
         self.problems.append((title, summary, list(problems)))
 
     def run_with_progress(self, title, work):
+        import time
+
+        start = time.perf_counter()
+
         def progress(done, total):
             self.progress_calls += 1
+            self.progress_log.append((time.perf_counter() - start, done, total))
 
         def cancel():
             return self.cancel_after is not None and self.progress_calls >= self.cancel_after
@@ -158,6 +185,7 @@ def window(qtbot, library, settings, prompt):
     win.show()
     qtbot.waitExposed(win)
     yield win
+    prompt.quit_answer = "Discard"  # a test that edited the form is not asked to save at teardown
     win.close()
     assert QThreadPool.globalInstance().waitForDone(10000), "a check was still running after the window closed"
     assert QThreadPool.globalInstance().activeThreadCount() == 0

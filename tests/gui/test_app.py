@@ -45,10 +45,46 @@ def test_run_opens_the_window_on_the_library(qapp, library_path, settings, monke
     assert seen and " parts pass · " in seen[0]
 
 
-def test_run_on_a_file_that_is_not_a_library_exits_1(qapp, tmp_path, settings, monkeypatch, capsys):
+def test_run_on_a_file_that_is_not_a_library_asks_and_quitting_exits_1(qapp, tmp_path, settings, monkeypatch,
+                                                                       capsys):
+    from partpick.gui.commands import OPEN_ANOTHER, OPEN_EXAMPLE, QUIT
+
     monkeypatch.setattr("partpick.gui.main_window.default_settings", lambda: settings)
+    asked = []
+
+    def choose(self, title, text, choices):
+        asked.append((text, list(choices)))
+        return QUIT
+
+    monkeypatch.setattr("partpick.gui.main_window.WindowPrompt.choose", choose)
     bogus = tmp_path / "notes.sqlite"
     bogus.write_text("this is not a database", encoding="utf-8")
     code = app_module.run(argparse.Namespace(library=str(bogus)))
     assert code == 1
     assert str(bogus.name) in capsys.readouterr().err
+    # The reason is shown in a dialog that offers another library or the example (SPEC §6).
+    assert len(asked) == 1
+    text, choices = asked[0]
+    assert bogus.name in text and choices == [OPEN_ANOTHER, OPEN_EXAMPLE, QUIT]
+    assert bogus.read_text(encoding="utf-8") == "this is not a database"  # left as it was
+
+
+def test_a_bad_library_at_start_can_be_replaced_by_the_example(qapp, tmp_path, settings, monkeypatch,
+                                                               example_library_file):
+    import shutil
+
+    from partpick.gui.commands import OPEN_EXAMPLE
+
+    monkeypatch.setattr("partpick.gui.main_window.default_settings", lambda: settings)
+    monkeypatch.setattr("partpick.gui.main_window.WindowPrompt.choose", lambda self, t, x, c: OPEN_EXAMPLE)
+    example_copy = tmp_path / "example-copy.sqlite"
+    shutil.copyfile(example_library_file, example_copy)
+    monkeypatch.setattr("partpick.gui.commands.example_library_copy", lambda: example_copy)
+    bogus = tmp_path / "notes.sqlite"
+    bogus.write_text("this is not a database", encoding="utf-8")
+    seen = []
+    timer = _close_when(lambda w: w.bench.result.result is not None, seen)
+    code = app_module.run(argparse.Namespace(library=str(bogus)))
+    timer.stop()
+    assert code == 0
+    assert seen and " parts pass · " in seen[0]

@@ -247,7 +247,7 @@ def test_part_editor_model_marks_the_field_and_refuses_until_valid():
     assert "unit 'A'" in model.error("vrrm_V") and not model.is_valid()
     model.set_text("vrrm_V", "40")
     model.set_text("tj_max_C", "20")  # below the field's 25 °C minimum
-    assert "tj_max_C" in model.error("tj_max_C") and not model.is_valid()
+    assert "Tj max [°C]" in model.error("tj_max_C") and not model.is_valid()  # the label on screen, not the key
     model.set_text("tj_max_C", "150")
     model.set_text("part_number", "TAKEN-1")
     assert "already in the library" in model.error("part_number")
@@ -318,3 +318,43 @@ def test_a_roles_own_table_is_a_form_group_of_its_fields():
     again = RequirementModel()
     again.load_dict(req.to_dict())  # what the window saves it reads back
     assert again.requirement_dict()["ac"]["capacitance_F"] == pytest.approx(47e-6)
+
+
+def test_part_editor_refuses_n_below_1_and_shows_range_errors_beside_a_parse_error():
+    """SPEC §5: n must be 1 … 4 for an entered model; one field that does not parse must not hide the
+    range errors of the others; messages use the editor's labels, not file keys."""
+    from partpick.gui.part_edit_model import PartEditModel
+
+    model = PartEditModel({"part_number": "X1", "kind": "rectifier", "vrrm_V": 100.0, "if_avg_A": 1.0,
+                           "is_A": 1e-9, "n": 1.5, "rs_ohm": 0.1, "tj_max_C": 150.0, "pd_W": 1.0})
+    assert model.is_valid()
+    model.set_text("n", "0.5")
+    assert not model.is_valid() and "outside 1 … 4" in model.error("n")
+    model.set_text("if_avg_A", "1xx")  # does not parse
+    model.set_text("vrrm_V", "-5")  # out of range
+    assert "expected 'A'" in model.error("if_avg_A")
+    assert "out of range" in model.error("vrrm_V") and "outside 1 … 4" in model.error("n")
+    assert "vrrm_V" not in model.error("vrrm_V") and "VRRM [V]" in model.error("vrrm_V")
+
+
+def test_check_table_with_part_is_the_full_check_sheet(tmp_path):
+    """`partpick check REQ --part P --format table` prints every check of P, not one shortlist row."""
+    import json
+    from pathlib import Path
+
+    from partpick.cli import main
+    from partpick.report.words import CHECK_LABELS
+
+    root = Path(__file__).resolve().parents[2]
+    toml = root / "resources" / "requirements" / "reverse_polarity_24V.toml"
+    library = root / "library.sqlite.example"
+    out_json = tmp_path / "r.json"
+    main(["check", str(toml), "--library", str(library), "--format", "json", "--output", str(out_json), "--top", "1"])
+    candidate = json.loads(out_json.read_text(encoding="utf-8"))["candidates"][0]
+    out = tmp_path / "sheet.txt"
+    main(["check", str(toml), "--library", str(library), "--part", candidate["part_number"], "--output", str(out)])
+    text = out.read_text(encoding="utf-8")
+    assert f"Check sheet: {candidate['part_number']}" in text
+    for check in candidate["checks"]:
+        assert CHECK_LABELS.get(check["name"], check["name"]) in text
+    assert "Worst-case values:" in text

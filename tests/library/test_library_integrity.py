@@ -119,6 +119,20 @@ def test_new_points_with_a_new_model_keep_the_entered_model(library, write_csv):
     assert (part["is_A"], part["n"], part["rs_ohm"], part["model_source"]) == (3e-9, 1.9, 0.05, "entered")
 
 
+def test_an_edited_model_in_an_exported_file_is_entered_not_fitted(library, write_csv, tmp_path):
+    library.import_csv(write_csv(f"part_number,kind,vrrm_V,if_avg_A,vf_points\nFIT-3,rectifier,400,1,{POINTS}\n"))
+    out = tmp_path / "all.csv"
+    library.export_csv(out)
+    text = out.read_text(encoding="utf-8")
+    fitted_n = library.get_part("FIT-3")["n"]
+    from partpick.library.csvio import format_number
+
+    out.write_text(text.replace(f",{format_number(fitted_n)},", ",1.85,"), encoding="utf-8")  # edit n only
+    library.import_csv(out)
+    part = library.get_part("FIT-3")
+    assert part["n"] == 1.85 and part["model_source"] == "entered"
+
+
 # -- item 7: damaged stored content -----------------------------------------------------------------
 
 def _tamper(path, sql, *args):

@@ -56,7 +56,7 @@ def zener_models_of(parts, shape_tail=(1,)):
     return low, high, nominal
 
 
-def choose_resistor(requirement, high: ZenerModel, iz_min, rth, *, tolerance_pct, series):
+def choose_resistor(requirement, high: ZenerModel, iz_min, rth, *, tolerance_pct, series, ambient_max_C=None):
     """The largest preferred resistor keeping Iz ≥ Iz min at min supply and max load (SPEC §4).
 
     Parameters
@@ -67,6 +67,8 @@ def choose_resistor(requirement, high: ZenerModel, iz_min, rth, *, tolerance_pct
         Iz min [A], > 0.
     rth : ndarray (P,)
         RthJA [K/W].
+    ambient_max_C : ndarray (P,), optional
+        The highest ambient per part [°C] (operating limits); default the requirement's.
 
     Returns
     -------
@@ -85,7 +87,8 @@ def choose_resistor(requirement, high: ZenerModel, iz_min, rth, *, tolerance_pct
     """
     base = np.ravel(high.voltage)
     alpha = np.ravel(high.temperature_coefficient)
-    ambient_C = np.where(alpha > 0, requirement.ambient_max_C, requirement.ambient_min_C)
+    hottest = requirement.ambient_max_C if ambient_max_C is None else ambient_max_C  # (P,) for operating limits
+    ambient_C = np.where(alpha > 0, hottest, requirement.ambient_min_C)
     ambient_K = ambient_C + ZERO_CELSIUS_K
     dv = np.ravel(high.delta_voltage(iz_min[:, None]))
     vz_high = (base * (1 + alpha * (ambient_K - T0_K)) + dv) / (1 - base * alpha * iz_min * rth)
@@ -165,7 +168,8 @@ class ZenerShuntRole(Role):
         if "resistor_ohm" in ov.choices or zr.resistor_ohm is not None:
             resistance = np.asarray(ov.choice("resistor_ohm", np.full(count, zr.resistor_ohm)), dtype=float)
             _, vz_high, vz_high_ambient = choose_resistor(req, high, iz_min, rth, tolerance_pct=tolerance_pct,
-                                                          series=zr.resistor_series)
+                                                          series=zr.resistor_series,
+                                                          ambient_max_C=ov.ambient_max(req, count))
             resistor_source = ("requirement [zener].resistor_ohm" if zr.resistor_ohm is not None
                                else f"largest {zr.resistor_series} value keeping Iz ≥ Iz min")
         else:
@@ -215,7 +219,7 @@ class ZenerShuntRole(Role):
         checks = []
         # feasible: the lowest supply must exceed the highest Zener voltage at Iz min.
         # Lowest supply, highest load, + Vz end, high resistor end, at the ambient end that raises Vz.
-        amb_pick = np.where(vz_high_ambient == req.ambient_max_C, 1, 0)
+        amb_pick = np.where(vz_high_ambient == ov.ambient_max(req, count), 1, 0)
         feasible_ids = np.array([_point_id(0, 1, 0, 1, 1), _point_id(0, 1, 1, 1, 1)])
         check = worst_case_check(
             "feasible", "V", np.full((count, 1), req.supply_min_V), np.where(bad, np.nan, vz_high), [0], "min",
