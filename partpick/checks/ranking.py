@@ -34,7 +34,7 @@ class Ranking:
 
 def margin_matrix(checks) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """(margins (P, N) with −inf for a null margin and +inf for an absent check, present, failed)."""
-    margins = np.stack([c.margin for c in checks], axis=1)
+    margins = np.stack([c.margin_pct for c in checks], axis=1)
     present = np.stack([c.present for c in checks], axis=1)
     passed = np.stack([c.passed for c in checks], axis=1)
     keyed = np.where(np.isnan(margins), -np.inf, margins)

@@ -6,9 +6,14 @@ is one corner (supply × load × ambient) in one state (``cold_start``,
 tolerances. A check is computed at every point it concerns; `worst_case_check`
 keeps, per part, the point with the smallest margin.
 
-Margin (SPEC §5): how far inside the limit, as % of the limit; negative fails.
-For an upper limit 100·(limit − value)/|limit|, for a lower limit
-100·(value − limit)/|limit|. A zero limit gives 0 when met and −100 when not.
+Margins (SPEC §4, one rule for every check of every role): ``margin`` is how
+far inside the limit, in the check's own unit — limit − value for an upper
+limit, value − limit for a lower one; ``margin_pct`` = 100·margin/budget, where
+the budget is |limit| for voltage, current, power, energy and time checks and
+limit − ambient at that point for temperature checks (the share of the allowed
+rise still unused). A zero budget gives 0 when met and −100 when not; a
+temperature budget ≤ 0 (ambient at or above the limit) fails with −100 and the
+reason "ambient at or above the limit". Negative always fails.
 """
 
 from __future__ import annotations
@@ -18,8 +23,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-__all__ = ["PointTable", "CheckArray", "margin_pct", "worst_case_check", "worst_value", "finite_or_none",
-           "object_array", "json_numbers"]
+__all__ = ["PointTable", "CheckArray", "margin_of", "margin_pct", "margin_pct_of", "temperature_budget",
+           "NO_TEMPERATURE_BUDGET", "worst_case_check", "worst_value", "finite_or_none", "object_array",
+           "json_numbers"]
 
 
 # A check whose margin is within this of zero passes (the value sits on its limit).
@@ -85,8 +91,11 @@ class CheckArray:
     ----------
     name, unit : str
         SPEC §4 check name and the unit of value and limit.
-    value, limit, margin : ndarray (P,)
+    value, limit : ndarray (P,)
         NaN where not computable (then ``reason`` says why).
+    margin : ndarray (P,)
+        How far inside the limit in the check's own unit (``unit``; K for a
+        check in °C); negative fails; NaN where not computable.
     passed : ndarray of bool (P,)
     point : ndarray of int (P,)
         Index into the role's `PointTable`; −1 where no point applies.
@@ -94,6 +103,9 @@ class CheckArray:
         Where the limit came from.
     reason : ndarray of object (P,)
         Text where the value is null, else None.
+    margin_pct : ndarray (P,)
+        The margin as % of its budget (module docstring); what worst points,
+        ranking and sensitivity compare.
     present : ndarray of bool (P,)
         Whether the check appears on that part's sheet (``data_missing`` only
         where data are missing).
@@ -111,12 +123,15 @@ class CheckArray:
     point: np.ndarray
     limit_source: np.ndarray
     reason: np.ndarray
+    margin_pct: np.ndarray = field(default=None)
     present: np.ndarray = field(default=None)
     note: np.ndarray | None = None
 
     def __post_init__(self) -> None:
         if self.present is None:
             self.present = np.ones(self.value.shape, dtype=bool)
+        if self.margin_pct is None:
+            self.margin_pct = np.asarray(margin_pct_of(self.margin, np.abs(self.limit)), dtype=float)
 
     def entries(self, indices, points: PointTable) -> list[dict | None]:
         """The JSON dicts of this check for the parts ``indices`` (None where the check is not present).
@@ -128,6 +143,7 @@ class CheckArray:
         values = json_numbers(self.value[idx])
         limits = json_numbers(self.limit[idx])
         margins = json_numbers(self.margin[idx])
+        margins_pct = json_numbers(self.margin_pct[idx])
         passed = self.passed[idx].tolist()
         present = self.present[idx].tolist()
         point = self.point[idx].tolist()
@@ -142,7 +158,8 @@ class CheckArray:
                 continue
             corner = corners[point[j]]
             entry = {"name": self.name, "value": values[j], "limit": limits[j], "unit": self.unit,
-                     "limit_source": sources[j], "margin_pct": margins[j], "passed": passed[j],
+                     "limit_source": sources[j], "margin": margins[j], "margin_pct": margins_pct[j],
+                     "passed": passed[j],
                      "corner": dict(corner) if corner is not None else None}
             if reasons[j] is not None:
                 entry["reason"] = reasons[j]
@@ -167,15 +184,30 @@ def finite_or_none(x) -> float | None:
     return x if math.isfinite(x) else None
 
 
-def margin_pct(value, limit, sense: str):
-    """Margin [% of the limit] of ``value`` against an upper (``"max"``) or lower (``"min"``) limit."""
+def margin_of(value, limit, sense: str):
+    """Margin in the check's own unit: limit − value (``"max"``) or value − limit (``"min"``)."""
     value = np.asarray(value, dtype=float)
     limit = np.asarray(limit, dtype=float)
-    diff = (limit - value) if sense == "max" else (value - limit)
-    denom = np.abs(limit)
+    return (limit - value) if sense == "max" else (value - limit)
+
+
+def margin_pct_of(margin, budget):
+    """``margin`` as % of ``budget`` (|limit| or a temperature rise); a budget ≤ 0 gives 0 when met, −100 when not."""
+    margin = np.asarray(margin, dtype=float)
+    denom = np.asarray(budget, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
-        scaled = 100.0 * diff / np.where(denom > 0, denom, 1.0)
-    return np.where(denom > 0, scaled, np.where(diff >= 0, 0.0, -100.0))
+        scaled = 100.0 * margin / np.where(denom > 0, denom, 1.0)
+    return np.where(np.isnan(margin), np.nan, np.where(denom > 0, scaled, np.where(margin >= 0, 0.0, -100.0)))
+
+
+def margin_pct(value, limit, sense: str):
+    """Margin [% of the limit] of ``value`` against an upper (``"max"``) or lower (``"min"``) limit."""
+    return margin_pct_of(margin_of(value, limit, sense), np.abs(np.asarray(limit, dtype=float)))
+
+
+def temperature_budget(limit_C, ambient_C):
+    """The budget of a temperature check: the allowed rise, limit − ambient [K] (≤ 0: no budget)."""
+    return np.asarray(limit_C, dtype=float) - np.asarray(ambient_C, dtype=float)
 
 
 def worst_value(values: np.ndarray, sense: str) -> tuple[np.ndarray, np.ndarray]:
@@ -193,8 +225,12 @@ def worst_value(values: np.ndarray, sense: str) -> tuple[np.ndarray, np.ndarray]
     return values[rows, col], col
 
 
+NO_TEMPERATURE_BUDGET = "ambient at or above the limit"
+"""The reason of a temperature check whose allowed rise is ≤ 0 (SPEC §4 Margins)."""
+
+
 def worst_case_check(name: str, unit: str, values, limits, point_ids, sense: str, limit_source,
-                     *, reasons=(), invalid=None, present=None) -> CheckArray:
+                     *, reasons=(), invalid=None, present=None, ambient_C=None) -> CheckArray:
     """Build a check from per-point values and limits, keeping each part's smallest margin.
 
     Parameters
@@ -210,6 +246,11 @@ def worst_case_check(name: str, unit: str, values, limits, point_ids, sense: str
         Applied in order where the value is null; the first that matches wins.
     invalid : ndarray of bool (P,), optional
         Parts whose value is not known whatever the arrays say (missing data).
+    ambient_C : array_like (K,) or (P, K), optional
+        Makes this a temperature check: the budget of ``margin_pct`` at each point
+        is limit − ambient (the allowed rise), and a point whose budget is ≤ 0
+        fails with −100 % and the reason `NO_TEMPERATURE_BUDGET`. Without it the
+        budget is |limit|.
     """
     values = np.atleast_2d(np.asarray(values, dtype=float))
     limits = np.asarray(limits, dtype=float)
@@ -218,28 +259,50 @@ def worst_case_check(name: str, unit: str, values, limits, point_ids, sense: str
     values, limits = np.broadcast_arrays(values, limits)
     point_ids = np.asarray(point_ids, dtype=int)
     count = values.shape[0]
-    margins = margin_pct(values, limits, sense)
+    margins = margin_of(values, limits, sense)
+    if ambient_C is None:
+        budgets = np.abs(limits)
+        no_budget = np.zeros(values.shape, dtype=bool)
+    else:
+        budgets = np.broadcast_to(temperature_budget(limits, ambient_C), values.shape)
+        no_budget = ~np.isnan(limits) & (budgets <= 0)
+    pcts = margin_pct_of(margins, budgets)
+    pcts = np.where(no_budget, -100.0, pcts)
+    pcts = np.where(np.isnan(values) | np.isnan(limits), np.nan, pcts)
     margins = np.where(np.isnan(values) | np.isnan(limits), np.nan, margins)
-    col = np.argmin(np.where(np.isnan(margins), -np.inf, margins), axis=1)
+    # the worst point: the smallest margin_pct; a point whose value is unknown is the worst
+    col = np.argmin(np.where(np.isnan(pcts), -np.inf, pcts), axis=1)
+    # a point without a temperature budget fails whatever its value (unknown or not)
+    col = np.where(no_budget.any(axis=1), np.argmax(no_budget, axis=1), col)
     rows = np.arange(count)
     value = values[rows, col].copy()
     limit = limits[rows, col].copy()
     margin = margins[rows, col].copy()
+    margin_pct_ = pcts[rows, col].copy()
+    budgetless = no_budget[rows, col]
+    margin_pct_[budgetless] = -100.0
     point = point_ids[col].copy()
     if invalid is not None:
         value[invalid] = np.nan
         margin[invalid] = np.nan
+        margin_pct_[invalid] = np.nan
         point[invalid] = -1
+        budgetless = budgetless & ~invalid
         # A limit that depends on the point (Pallow at an ambient) means nothing without one.
         varies = ~np.all(limits == limits[:, :1], axis=1)
         limit[invalid & varies] = np.nan
-    passed = np.isfinite(margin) & np.isfinite(value) & (margin >= -_MARGIN_SLACK_PCT)
+    passed = (np.isfinite(margin_pct_) & np.isfinite(value) & (margin_pct_ >= -_MARGIN_SLACK_PCT)
+              & ~budgetless)
     # An infinite stress (e.g. power with no allowance left) is reported as null with its reason.
     value[np.isinf(value)] = np.nan
-    margin[~np.isfinite(margin)] = np.nan
+    margin[~np.isfinite(margin) | np.isnan(value)] = np.nan
+    margin_pct_[~np.isfinite(margin_pct_) & ~budgetless] = np.nan
     reason = object_array(None, count)
-    unknown = np.isnan(value)
+    unknown = np.isnan(value) | budgetless
     open_ = unknown.copy()
+    if budgetless.any():
+        reason[budgetless] = NO_TEMPERATURE_BUDGET
+        open_ &= ~budgetless
     for mask, text in reasons:
         hit = open_ & mask
         if hit.any():
@@ -250,4 +313,4 @@ def worst_case_check(name: str, unit: str, values, limits, point_ids, sense: str
     if isinstance(limit_source, str):
         limit_source = object_array(limit_source, count)
     return CheckArray(name, unit, value, limit, margin, passed, point, limit_source, reason,
-                      present if present is not None else np.ones(count, dtype=bool))
+                      margin_pct_, present if present is not None else np.ones(count, dtype=bool))

@@ -51,7 +51,7 @@ class Sensitivity:
 def smallest_margin(result: RoleResult) -> np.ndarray:
     """(P,) the smallest margin_pct over the checks on each part's sheet (NaN where one is not known)."""
     # a check that passes without a margin (reported "not rated", not checked) bounds nothing
-    margins = [np.where(c.present & ~(c.passed & np.isnan(c.margin)), c.margin, np.inf)
+    margins = [np.where(c.present & ~(c.passed & np.isnan(c.margin_pct)), c.margin_pct, np.inf)
                for c in result.checks if c.name != "data_missing"]
     if not margins:
         return np.full(0, np.nan)
