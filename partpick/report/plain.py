@@ -9,6 +9,7 @@ import math
 
 from partpick.report.words import (
     CHECK_LABELS,
+    cautions_of,
     KEY_METRICS,
     METRIC_LABELS,
     METRIC_ORDER,
@@ -292,7 +293,5 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
         if part is not None else None
     if subject is not None:
         lines += [""] + check_sheet_lines(subject)
-    lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
-                  "and measurements."]
-    lines += [f"CAUTION: {clean_text(c)}" for c in result.get("cautions") or []]
+    lines += [""] + [f"CAUTION: {clean_text(c)}" for c in cautions_of(result)]
     return ("\n".join(lines) + "\n").encode("utf-8")

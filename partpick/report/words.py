@@ -5,11 +5,12 @@ from __future__ import annotations
 import math
 import re
 
+from partpick.checks.cautions import ALL_CAUTIONS
 from partpick.checks.curves import corner_label
 from partpick.units import format_engineering
 
 __all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
-           "clean_text", "CAUTIONS", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
+           "clean_text", "CAUTIONS", "cautions_of", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
            "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER"]
 
 ROLE_LABELS = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
@@ -176,15 +177,13 @@ def first_failing(candidate: dict) -> dict | None:
     return failing[0] if failing else None
 
 
-CAUTIONS = (
-    "Results are estimates computed from datasheet parameters and the models below; they are not "
-    "measurements. Verify every choice against the manufacturer's datasheet, with prototypes and with "
-    "measurements on the real circuit before relying on it.",
-    "Diodes in mains rectifiers, high-energy supplies and protection paths can fail violently (rupture, "
-    "fire) or fail short and leave circuits live. Such designs need the review of a qualified person.",
-    "Follow your local electrical codes and safety standards and defer to licensed practice; this report "
-    "does not replace them.",
-)
+CAUTIONS = ALL_CAUTIONS
+"""SPEC §7 — what a report prints when a result carries no ``cautions`` of its own (older JSON)."""
+
+
+def cautions_of(result: dict) -> list[str]:
+    """The cautions a rendering of ``result`` prints: the result's list (general, role, assumptions)."""
+    return list(result.get("cautions") or ALL_CAUTIONS)
 
 # (what, formula, source) — the formulas the checks and curves use.
 FORMULAS = (
