@@ -26,6 +26,7 @@ from collections.abc import Mapping
 
 import numpy as np
 
+from partpick.checks.partdata import PART_DEFAULTS
 from partpick.physics.constants import T0_K, celsius_to_kelvin
 from partpick.physics.junction import (
     PN_BAND_GAP_EV,
@@ -93,7 +94,7 @@ def record_forward_model(part: dict, notes: list[str]) -> ForwardModel | None:
     band_gap = number(part, "eg_eV", SCHOTTKY_BAND_GAP_EV if schottky else PN_BAND_GAP_EV)
     exponent = number(part, "is_temp_exponent",
                        SCHOTTKY_TEMPERATURE_EXPONENT if schottky else PN_TEMPERATURE_EXPONENT)
-    rs_exponent = number(part, "rs_temp_exponent", 0.0)
+    rs_exponent = number(part, "rs_temp_exponent", PART_DEFAULTS["rs_temp_exponent"][1 if schottky else 0])
     Is, n, Rs = (number(part, key) for key in ("is_A", "n", "rs_ohm"))
     if Is is None or n is None or Rs is None:
         points = part.get("vf_points") or []

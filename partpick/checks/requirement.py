@@ -72,7 +72,7 @@ DEFAULTS: dict[str, Any] = {
     "rth_ja_K_per_W": None,            # each part's own RthJA
     "inrush_capacitance_F": None,
     "inrush_source_ohm": None,
-    "handover": True,                  # series: the diode blocks straight from its hot, conducting state
+    "handover": None,                  # derived: true (series: it blocks straight from its hot, conducting state)
     "kinds": None,                     # every kind the role considers
     "packages": None,
     "lifecycle": None,
@@ -94,6 +94,7 @@ DEFAULT_RULES = {
     "zener.min_zener_current_A": "each part's izk_A",
     "zener.resistor_tolerance_pct": "5 % for E12/E24, 1 % for E48/E96",
     "zener.resistor_ohm": "the largest value of resistor_series that keeps Iz ≥ Iz min",
+    "handover": "true: the series diode blocks straight from its hot, conducting state (false: from switch-on)",
 }
 
 # How each key is checked: (kind, lower bound, lower inclusive, upper bound).
@@ -227,7 +228,7 @@ class Requirement:
     rth_ja_K_per_W: float | None = None
     inrush_capacitance_F: float | None = None
     inrush_source_ohm: float | None = None
-    handover: bool = DEFAULTS["handover"]
+    handover: bool | None = None
     kinds: tuple[str, ...] | None = None
     packages: tuple[str, ...] | None = None
     lifecycle: tuple[str, ...] | None = None
@@ -243,6 +244,11 @@ class Requirement:
             if values._table.name == name:
                 return values
         return None
+
+    @property
+    def hands_over(self) -> bool:
+        """Whether a series diode blocks straight from its conducting state (``handover``, default true)."""
+        return self.handover is not False
 
     @property
     def policy_name(self) -> str:

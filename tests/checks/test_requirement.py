@@ -37,9 +37,16 @@ def test_minimal_series_requirement_echoes_every_default():
     assert req.reverse_voltage == 13.0
 
 
-def test_reverse_transient_wins_when_larger():
+def test_a_reverse_transient_is_not_the_continuous_reverse_voltage():
+    # SPEC §3: a pulse is checked against the peak rating only; leakage and runaway use reverse_V
     req = requirement_from_toml(SERIES + "reverse_V = 12.0\nreverse_transient_V = 40.0\n", "r.toml")
-    assert req.reverse_voltage == 40.0
+    assert req.reverse_voltage == 12.0 and req.reverse_transient_V == 40.0
+    assert req.hands_over and not requirement_from_toml(SERIES + "handover = false\n", "r.toml").hands_over
+
+
+def test_handover_must_be_true_or_false():
+    with pytest.raises(InputError, match="handover.*not true or false"):
+        requirement_from_toml(SERIES + 'handover = "yes"\n', "r.toml")
 
 
 def test_zener_defaults_follow_the_series():

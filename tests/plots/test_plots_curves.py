@@ -30,9 +30,9 @@ def _is_at(is25, T, n, eg, m):
     return is25 * (T / T0) ** (m / n) * math.exp(eg * constants.e / (n * constants.k) * (1 / T0 - 1 / T))
 
 
-def _shockley_v(I, T, is25=2e-6, n=1.3, rs=0.06, eg=0.69, m=2.0):
-    # Schottky defaults Eg 0.69 eV and m = 2 (SPEC §3).
-    return n * _vt(T) * math.log1p(I / _is_at(is25, T, n, eg, m)) + I * rs
+def _shockley_v(I, T, is25=2e-6, n=1.3, rs=0.06, eg=0.69, m=2.0, p=1.5):
+    # Schottky defaults Eg 0.69 eV and m = 2, and Rs(T) = Rs·(T/T0)^1.5 (SPEC §3 defaults).
+    return n * _vt(T) * math.log1p(I / _is_at(is25, T, n, eg, m)) + I * rs * (T / (K0 + 25.0)) ** p
 
 
 def _max_vf_is25(vf_max=0.55, at=1.0, n=1.3, rs=0.06):

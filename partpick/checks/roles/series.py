@@ -148,12 +148,12 @@ class SeriesRole(Role):
         law = _leakage_law(parts)
         load_max = ov.load_max(req, count)
         hot_corners = np.flatnonzero(corners.ambient_C == req.ambient_max_C)
-        if req.handover:
+        if req.hands_over:
             start_K = np.max(tj_steady_K[:, hot_corners], axis=1)  # NaN where the forward state runs away
         else:
             start_K = np.asarray(hot_K, dtype=float)
         blocking = blocking_state(law, reverse_V, hot_K, rth)
-        settles, cause = _settling(blocking, start_K, hot_K, tj_max_K, req.handover)
+        settles, cause = _settling(blocking, start_K, hot_K, tj_max_K, req.hands_over)
         tj_rev_K = np.where(reverse_bad | ~np.isfinite(blocking.junction_temperature), np.nan,
                             blocking.junction_temperature)
         # leakage peaks right after a hand-over, while the junction is still hot: at max(start, stable)
@@ -161,7 +161,7 @@ class SeriesRole(Role):
         leakage = np.where(settles & ~reverse_bad, law.current(reverse_V, np.where(np.isfinite(leak_at_K),
                                                                                   leak_at_K, hot_K)), np.nan)
         runaway_ambient_K, runaway_rth = _runaway_limits(model, law, reverse_V, load_max, hot_K, rth, tj_max_K,
-                                                         req.handover, req.ambient_min_C + ZERO_CELSIUS_K)
+                                                         req.hands_over, req.ambient_min_C + ZERO_CELSIUS_K)
         reverse_reasons = [(reverse_bad, None), (~settles, cause)]
         def with_missing(check, reasons):
             text = needs.reason(check)
@@ -260,7 +260,7 @@ class SeriesRole(Role):
         voltage_note[parts.known("ir_vr_V") & (reverse_V < ir_vr)] = (
             f"leakage held at the datasheet's value below its test voltage ({reverse_V:g} V is below it; "
             "conservative)")
-        check.note = _joined(_runaway_notes(blocking, start_K, settles, cause, law, req.handover, reverse_bad),
+        check.note = _joined(_runaway_notes(blocking, start_K, settles, cause, law, req.hands_over, reverse_bad),
                              voltage_note)
         checks.append(check)
 

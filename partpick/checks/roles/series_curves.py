@@ -14,13 +14,15 @@ Section layout: `partpick.checks.curves`.
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from partpick.checks.curves import (AMBIENT_EXTENSION_K, CURVE_POINTS, format_engineering, number,
                                     record_forward_model, record_thermal, thermal_sections)
 from partpick.physics.constants import T0_K, celsius_to_kelvin, kelvin_to_celsius
-from partpick.physics.leakage import reverse_current
-from partpick.physics.thermal import reverse_thermal_state, self_heated_forward
+from partpick.physics.leakage import leakage_law
+from partpick.physics.thermal import blocking_state, self_heated_forward
 
 __all__ = ["series_curves"]
 
@@ -142,14 +144,17 @@ def series_curves(req: dict, part: dict, candidate: dict, notes: list[str]) -> d
     tj_curve = np.where(heat.runaway, np.nan, kelvin_to_celsius(np.where(heat.runaway, T0_K, heat.junction_temperature)))
     tj_curves = [{"label": f"forward state, steady, IL {format_engineering(load_max, 'A')}",
                   "x": amb_c, "y": tj_curve, "role": "tj_forward"}]
-    # The reverse voltage of the checks: reverse_V (default the supply reversed), or the transient if larger.
-    vr = max(number(req, "reverse_V", float(req["supply_max_V"])), number(req, "reverse_transient_V", 0.0))
+    # The continuous reverse voltage of the checks: reverse_V, default the supply reversed (a
+    # reverse_transient_V is a pulse: it never heats the junction, SPEC §3).
+    vr = number(req, "reverse_V", float(req["supply_max_V"]))
     ir, ir_vr, ir_t = (number(part, k) for k in ("ir_A", "ir_vr_V", "ir_t_C"))
     if ir is not None and ir_vr is not None and rth > 0:
         ir_t = 25.0 if ir_t is None else ir_t
-        doubling = number(part, "ir_double_K", 10.0)
-        p0 = vr * reverse_current(ir, ir_vr, celsius_to_kelvin(ir_t), vr, amb, doubling)
-        rev = reverse_thermal_state(p0, doubling, amb, rth)
+        hot_t = number(part, "ir_hot_t_C")
+        law = leakage_law(ir, ir_vr, celsius_to_kelvin(ir_t), number(part, "ir_double_K", 10.0),
+                          number(part, "ir_hot_A", math.nan),
+                          celsius_to_kelvin(hot_t) if hot_t is not None else math.nan)
+        rev = blocking_state(law, vr, amb, rth)
         rev_tj = np.where(rev.runaway, np.nan, kelvin_to_celsius(np.where(rev.runaway, T0_K, rev.junction_temperature)))
         tj_curves.append({"label": f"reverse state, VR {format_engineering(vr, 'V')}", "x": amb_c, "y": rev_tj,
                           "role": "tj_reverse"})
