@@ -82,7 +82,13 @@ ZENER_DEFAULTS: dict[str, Any] = {
     "resistor_series": "E24",
     "resistor_tolerance_pct": None,    # derived: 5 % E12/E24, 1 % E48/E96
     "resistor_ohm": None,              # chosen from the series
+    "resistor_rating_W": None,         # the chosen power class
+    "resistor_rated_ambient_C": 70.0,  # full class rating up to here (film resistors, common practice)
+    "resistor_zero_power_C": 155.0,    # ... linearly to none here (common practice)
+    "short_circuit": True,             # check an output short against the resistor's rating
+    "vz_distribution": "normal",       # yield: Vz normal with tolerance = 3σ, or "uniform" (binned parts)
 }
+VZ_DISTRIBUTIONS = ("normal", "uniform")
 # The [thermal] table (SPEC §3a): how the part is mounted.
 MOUNTS = ("board", "heatsink")
 THERMAL_DEFAULTS: dict[str, Any] = {
@@ -93,6 +99,7 @@ DEFAULT_RULES = {
     "zener.min_zener_current_A": "each part's izk_A",
     "zener.resistor_tolerance_pct": "5 % for E12/E24, 1 % for E48/E96",
     "zener.resistor_ohm": "the largest value of resistor_series that keeps Iz ≥ Iz min",
+    "zener.resistor_rating_W": "the smallest power class covering the resistor's power",
 }
 
 # How each key is checked: (kind, lower bound, lower inclusive, upper bound).
@@ -125,6 +132,9 @@ _ZENER_KEY_RULES: dict[str, tuple] = {
     "min_zener_current_A": (_NUM, 0.0, False, 100.0),
     "resistor_tolerance_pct": (_NUM, 0.0, True, 50.0),
     "resistor_ohm": (_NUM, 0.0, False, 1e9),
+    "resistor_rating_W": (_NUM, 0.0, False, 1e6),
+    "resistor_rated_ambient_C": (_NUM, AMBIENT_RANGE_C[0], True, AMBIENT_RANGE_C[1]),
+    "resistor_zero_power_C": (_NUM, AMBIENT_RANGE_C[0], True, 1000.0),
 }
 _THERMAL_KEY_RULES: dict[str, tuple] = {
     "copper_area_mm2": (_NUM, 0.0, False, 1e6),
@@ -151,6 +161,11 @@ class ZenerRequirement:
     resistor_series: str = ZENER_DEFAULTS["resistor_series"]
     resistor_tolerance_pct: float | None = ZENER_DEFAULTS["resistor_tolerance_pct"]
     resistor_ohm: float | None = ZENER_DEFAULTS["resistor_ohm"]
+    resistor_rating_W: float | None = ZENER_DEFAULTS["resistor_rating_W"]
+    resistor_rated_ambient_C: float = ZENER_DEFAULTS["resistor_rated_ambient_C"]
+    resistor_zero_power_C: float = ZENER_DEFAULTS["resistor_zero_power_C"]
+    short_circuit: bool = ZENER_DEFAULTS["short_circuit"]
+    vz_distribution: str = ZENER_DEFAULTS["vz_distribution"]
 
     @property
     def resistor_tolerance(self) -> float:
@@ -578,6 +593,22 @@ def _zener_table(reader: _Reader, table) -> ZenerRequirement:
             reader.fail("resistor_series", f"{series!r} is not one of {', '.join(RESISTOR_SERIES)}"
                         f"{_suggest(str(series), RESISTOR_SERIES)}", "zener")
         values["resistor_series"] = series.upper()
+    if "short_circuit" in table:
+        if not isinstance(table["short_circuit"], bool):
+            reader.fail("short_circuit", f"{table['short_circuit']!r} is not true or false", "zener")
+        values["short_circuit"] = table["short_circuit"]
+    if "vz_distribution" in table:
+        shape = table["vz_distribution"]
+        if not isinstance(shape, str) or shape not in VZ_DISTRIBUTIONS:
+            reader.fail("vz_distribution", f"{shape!r} is not one of {', '.join(VZ_DISTRIBUTIONS)}"
+                        f"{_suggest(str(shape), VZ_DISTRIBUTIONS)}", "zener")
+        values["vz_distribution"] = shape
+    rated = values.get("resistor_rated_ambient_C", ZENER_DEFAULTS["resistor_rated_ambient_C"])
+    zero = values.get("resistor_zero_power_C", ZENER_DEFAULTS["resistor_zero_power_C"])
+    if zero <= rated:
+        key = "resistor_zero_power_C" if "resistor_zero_power_C" in table else "resistor_rated_ambient_C"
+        reader.fail(key, f"the resistor's zero-power ambient ({zero:g} °C) must be above its full-rating "
+                         f"ambient resistor_rated_ambient_C ({rated:g} °C)", "zener")
     return ZenerRequirement(**values)
 
 

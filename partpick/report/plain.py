@@ -150,6 +150,20 @@ def _margin_text(value) -> str:
     return "—" if value is None else f"{value:+.1f} %".replace("-", "−")
 
 
+_SHORT_HEADERS = {"yield_pct": "Yield per build over every corner (95 % interval)"}
+
+
+def yield_text(metrics: dict) -> str:
+    """``yield_pct`` with its 95 % Wilson interval: "99.50 % (99.10–99.80 %)"; "—" without a yield run."""
+    value = metrics.get("yield_pct")
+    if value is None:
+        return "—"
+    low, high = metrics.get("yield_low_pct"), metrics.get("yield_high_pct")
+    if low is None or high is None:
+        return f"{value:.2f} %"
+    return f"{value:.2f} % ({low:.2f}–{high:.2f} %)"
+
+
 def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[list[str], list[list[str]]]:
     """Header and rows of the ranked shortlist, as text (shared by the table and the HTML report)."""
     role = (result.get("requirement") or {}).get("role", "series")
@@ -157,7 +171,7 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
     if any((c.get("metrics") or {}).get("yield_pct") is not None for c in result.get("candidates", [])):
         keys = keys + ("yield_pct",)
     header = ["Rank", "Part", "Kind", "Package", "Result", "First failing check", "Smallest margin"]
-    header += [f"{METRIC_LABELS[k]}" for k in keys] + ["Price", "Lifecycle"]
+    header += [_SHORT_HEADERS.get(k, METRIC_LABELS[k]) for k in keys] + ["Price", "Lifecycle"]
     parts_by_number = parts_by_number or {}
     rows = []
     for c in result.get("candidates", []):
@@ -179,7 +193,8 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
         row = [str(c.get("rank", "")), clean_text(c.get("part_number")), clean_text(c.get("kind")),
                clean_text(c.get("package") or "—"), "pass" if c.get("passed") else "FAIL", failing,
                _margin_text(smallest_margin(c))]
-        row += [format_value(metrics.get(k), metric_unit(k)) for k in keys]
+        row += [yield_text(metrics) if k == "yield_pct" else format_value(metrics.get(k), metric_unit(k))
+                for k in keys]
         row += [f"{part['price']:g}" if isinstance(part.get("price"), (int, float)) else "—",
                 clean_text(part.get("lifecycle") or "—")]
         rows.append(row)

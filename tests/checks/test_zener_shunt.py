@@ -180,29 +180,102 @@ def test_zener_missing_data_and_policy_limits():
     assert checks["junction_temp"]["limit"] == 125.0 and "Tj cap 125" in checks["junction_temp"]["limit_source"]
 
 
-def test_yield_is_seeded_and_matches_a_closed_form():
+def _wilson_by_hand(k, n):
+    # Wilson (1927) score interval, 95 % (z = 1.96), written as the roots of the quadratic
+    # (p − k/n)² = z²·p(1 − p)/n in p — a different form from the code's centre ± half-width.
+    z = 1.959963984540054
+    a = 1 + z * z / n
+    b = -(2 * k / n + z * z / n)
+    c = (k / n) ** 2
+    disc = max(b * b - 4 * a * c, 0.0)
+    return (-b - disc ** 0.5) / (2 * a), (-b + disc ** 0.5) / (2 * a)
+
+
+def test_wilson_interval_against_the_formula_by_hand():
+    from partpick.checks.montecarlo import wilson_interval
+
+    # Wilson 1927: the interval's ends are the roots of the quadratic in p (see _wilson_by_hand).
+    for k, n in ((81, 263), (0, 50), (50, 50), (1999, 2000), (1, 10)):
+        low, high = wilson_interval(k, n)
+        exp_low, exp_high = _wilson_by_hand(k, n)
+        assert float(low) == pytest.approx(exp_low, abs=1e-12)
+        assert float(high) == pytest.approx(exp_high, abs=1e-12)
+    assert float(wilson_interval(0, 50)[0]) == 0.0 and float(wilson_interval(50, 50)[1]) == 1.0
+    # Rule of three (common practice): with no failure in n builds the 95 % lower bound on yield is near
+    # 1 − 3/n; Wilson's is a little tighter, 1 − z²/(n + z²).
+    assert float(wilson_interval(2000, 2000)[0]) == pytest.approx(1 - 1.959963984540054 ** 2 / (2000 + 1.959963984540054 ** 2))
+
+
+def test_yield_is_seeded_and_matches_a_closed_form_at_every_corner():
     # With Z = rz down to Izk and αVz = 0 the regulator is linear: Vo = Vz0 + rz·(Vs − Vz0 − IL·R)/(R + rz),
     # Vz0 = Vz − rz·Izt (Sedra & Smith's model). Every build here stays above Izk, so the closed form holds.
+    # A build passes only if it holds at EVERY corner: both supplies × both loads.
     part = _sedra_part(vz_tol_pct=5.0)
-    req = _sedra_requirement((10.0, 11.0), load_max=1e-3, resistor_tolerance_pct=5.0, max_regulation_error_pct=4.0)
+    req = _sedra_requirement((10.0, 11.0), load_max=1e-3, resistor_tolerance_pct=5.0, max_regulation_error_pct=2.2)
     runs = 2000
-    first = run_check(req, [part], yield_runs=runs, seed=7)["candidates"][0]["metrics"]["yield_pct"]
-    again = run_check(req, [part], yield_runs=runs, seed=7)["candidates"][0]["metrics"]["yield_pct"]
-    other = run_check(req, [part], yield_runs=runs, seed=8)["candidates"][0]["metrics"]["yield_pct"]
-    assert first == again and other != first
+    first = run_check(req, [part], yield_runs=runs, seed=7)["candidates"][0]["metrics"]
+    again = run_check(req, [part], yield_runs=runs, seed=7)["candidates"][0]["metrics"]
+    other = run_check(req, [part], yield_runs=runs, seed=8)["candidates"][0]["metrics"]
+    assert first == again and other["yield_pct"] != first["yield_pct"]
     d = draws(runs, 7)
     vz = 6.8 * (1 + 0.05 / 3 * d["vz"])
     R = 500.0 * (1 + 0.05 / 3 * d["resistor"])
-    vs = 10.0 + d["supply"] * 1.0
     ok = np.ones(runs, dtype=bool)
-    for il in (0.0, 1e-3):
-        vz0 = vz - 20.0 * 5e-3
-        vo = vz0 + 20.0 * (vs - vz0 - il * R) / (R + 20.0)
-        iz = (vs - vo) / R - il
-        assert iz.min() > 0.2e-3
-        ok &= np.abs(vo - 6.83) / 6.83 * 100 <= 4.0
-    assert first == pytest.approx(100.0 * ok.mean(), abs=1e-9)
-    assert 0 < first < 100
+    any_corner = np.zeros(runs, dtype=bool)
+    for vs in (10.0, 11.0):
+        for il in (0.0, 1e-3):
+            vz0 = vz - 20.0 * 5e-3
+            vo = vz0 + 20.0 * (vs - vz0 - il * R) / (R + 20.0)
+            iz = (vs - vo) / R - il
+            assert iz.min() > 0.2e-3
+            holds = np.abs(vo - 6.83) / 6.83 * 100 <= 2.2
+            ok &= holds
+            any_corner |= holds
+    k = int(ok.sum())
+    assert first["yield_pct"] == pytest.approx(100.0 * k / runs, abs=1e-9)
+    assert 0 < first["yield_pct"] < 100
+    # Judging each build at one corner only would read higher: the rule must be "every corner".
+    assert 100.0 * any_corner.mean() > first["yield_pct"] + 1.0
+    low, high = _wilson_by_hand(k, runs)
+    assert first["yield_low_pct"] == pytest.approx(100 * low, abs=1e-9)
+    assert first["yield_high_pct"] == pytest.approx(100 * high, abs=1e-9)
+
+
+@pytest.mark.parametrize("distribution", ["normal", "uniform"])
+def test_yield_against_a_brute_force_loop_with_brentq(distribution):
+    # A part with a knee (Zzk) and αVz ≠ 0, self-heated: each build is solved corner by corner with brentq
+    # (tests/checks/reference_models.py), a plain Python loop; it passes if Vout is within the limit and
+    # Iz ≥ Iz min at all 8 corners of supply × load × ambient.
+    part = make_part(**DESIGN)
+    req = _design_requirement(target_V=5.6, max_regulation_error_pct=7.0, min_zener_current_A=2e-3,
+                              vz_distribution=distribution)
+    runs = 150
+    result = run_check(req, [part], yield_runs=runs, seed=3)
+    json.dumps(result, allow_nan=False)
+    m = result["candidates"][0]["metrics"]
+    R0 = m["series_resistor_ohm"]
+    d = draws(runs, 3)
+    unit = d["vz_uniform"] if distribution == "uniform" else d["vz"] / 3.0
+    shape = dict(izt=20e-3, zzt=5.0, izk=1e-3, zzk=400.0)
+    rth = (150.0 - 25.0) / 0.5
+    passed = 0
+    for b in range(runs):
+        vz0 = 5.6 * (1 + 0.05 * unit[b])
+        R = R0 * (1 + 0.05 / 3 * d["resistor"][b])
+        good = True
+        for vs, il, amb in itertools.product((9.0, 14.0), (0.0, 0.010), (-20.0, 70.0)):
+            V, Iz, _ = shunt_point(vs, R, il, amb + ZERO_C, rth, vz0, 0.03 / 100, **shape)
+            good &= abs(V - 5.6) / 5.6 * 100 <= 7.0 and Iz >= 2e-3
+        passed += good
+    assert m["yield_pct"] == pytest.approx(100.0 * passed / runs, abs=1e-9)
+    assert 0 < m["yield_pct"] < 100  # the case separates passing from failing builds
+
+
+def test_vz_distribution_is_validated():
+    from partpick.errors import InputError
+
+    with pytest.raises(InputError, match=r"vz_distribution.*'gauss' is not one of normal, uniform"):
+        _design_requirement(target_V=5.6, max_regulation_error_pct=7.0, vz_distribution="gauss")
 
 
 def test_yield_refused_for_the_series_role(silicon_part):
