@@ -301,6 +301,9 @@ class Requirement:
                 value = value.given
             data[key] = value
         data = {k: v for k, v in data.items() if v is not None}
+        for key in ("zener", "thermal"):  # keys not given stay not given (None is not a TOML value)
+            if isinstance(data.get(key), dict):
+                data[key] = {k: v for k, v in data[key].items() if v is not None}
         return requirement_from_dict(data, self.source)
 
     def to_raw_dict(self) -> dict:
