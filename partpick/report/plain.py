@@ -229,6 +229,10 @@ def check_sheet_lines(candidate: dict) -> list[str]:
                      _margin_text(check.get("margin_pct")), corner_text(check.get("corner")),
                      clean_text(check.get("limit_source") or "")])
     lines += _aligned(header, rows, numeric={1, 2, 4})
+    notes = [(CHECK_LABELS.get(c.get("name"), clean_text(c.get("name"))), clean_text(c["note"]))
+             for c in candidate.get("checks", []) if c.get("note")]
+    if notes:  # what a value means where the corner alone does not say it (e.g. the output short)
+        lines += ["", "Notes:"] + [f"  {label}: {text}" for label, text in notes]
     metrics = candidate.get("metrics") or {}
     keys = [k for k in METRIC_ORDER if k in metrics] + sorted(set(metrics) - set(METRIC_ORDER))
     if keys:
