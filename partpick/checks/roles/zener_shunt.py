@@ -114,6 +114,21 @@ class ZenerShuntRole(Role):
 
         return zener_shunt_curves(requirement, part, candidate, notes)
     supports_yield = True
+    method_notes = (
+        "Every corner (supply × load × ambient) is solved at both ends of the Vz tolerance and both ends of the "
+        "resistor tolerance, Vout, Iz and Tj together (self-heated).",
+        "The resistor's power rating falls with ambient: the full class rating up to 70 °C, linearly to zero at "
+        "155 °C (film resistors, common practice; [zener].resistor_rated_ambient_C and resistor_zero_power_C "
+        "override). The class is the smallest whose rating, so derated and at the policy's percentage, covers "
+        "the resistor's power at every corner.",
+        "Output short: the highest supply across the resistor's low end, against 100 % of its rating derated to "
+        "the hottest ambient (a fault, so the policy's percentage does not apply).",
+        "Line and load regulation are small-signal figures, 1000·Z/(R + Z) and −(R ∥ Z), at Izt and at the "
+        "corner of lowest Iz, with Z from the knee curve there.",
+        "Yield (--yield N) is per build over every corner: each build draws Vz (normal, tolerance = 3σ, or "
+        "uniform for binned parts) and R (normal, tolerance = 3σ) and passes only if Vout stays within the "
+        "regulation limit and Iz ≥ Iz min at all corners; the 95 % interval is Wilson's score interval.",
+    )
     part_inputs = ("vz_V", "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K", "pd_W",
                    "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "rth_jc_K_per_W", "rth_ja_large_K_per_W")
 
