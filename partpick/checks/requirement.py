@@ -83,8 +83,8 @@ ZENER_DEFAULTS: dict[str, Any] = {
     "resistor_tolerance_pct": None,    # derived: 5 % E12/E24, 1 % E48/E96
     "resistor_ohm": None,              # chosen from the series
     "resistor_rating_W": None,         # the chosen power class
-    "resistor_rated_ambient_C": 70.0,  # full class rating up to here (film resistors, common practice)
-    "resistor_zero_power_C": 155.0,    # ... linearly to none here (common practice)
+    "resistor_rated_ambient_C": None,  # derived: 70 °C, full class rating up to here (film resistors)
+    "resistor_zero_power_C": None,     # derived: 155 °C, linearly to none here
     "short_circuit": True,             # check an output short against the resistor's rating
     "vz_distribution": "normal",       # yield: Vz normal with tolerance = 3σ, or "uniform" (binned parts)
 }
@@ -100,6 +100,8 @@ DEFAULT_RULES = {
     "zener.resistor_tolerance_pct": "5 % for E12/E24, 1 % for E48/E96",
     "zener.resistor_ohm": "the largest value of resistor_series that keeps Iz ≥ Iz min",
     "zener.resistor_rating_W": "the smallest power class covering the resistor's power",
+    "zener.resistor_rated_ambient_C": "70 °C (film resistors, common practice)",
+    "zener.resistor_zero_power_C": "155 °C (film resistors, common practice)",
 }
 
 # How each key is checked: (kind, lower bound, lower inclusive, upper bound).
@@ -162,8 +164,8 @@ class ZenerRequirement:
     resistor_tolerance_pct: float | None = ZENER_DEFAULTS["resistor_tolerance_pct"]
     resistor_ohm: float | None = ZENER_DEFAULTS["resistor_ohm"]
     resistor_rating_W: float | None = ZENER_DEFAULTS["resistor_rating_W"]
-    resistor_rated_ambient_C: float = ZENER_DEFAULTS["resistor_rated_ambient_C"]
-    resistor_zero_power_C: float = ZENER_DEFAULTS["resistor_zero_power_C"]
+    resistor_rated_ambient_C: float | None = ZENER_DEFAULTS["resistor_rated_ambient_C"]
+    resistor_zero_power_C: float | None = ZENER_DEFAULTS["resistor_zero_power_C"]
     short_circuit: bool = ZENER_DEFAULTS["short_circuit"]
     vz_distribution: str = ZENER_DEFAULTS["vz_distribution"]
 
@@ -176,9 +178,25 @@ class ZenerRequirement:
 
         return default_tolerance_pct(self.resistor_series)
 
+    @property
+    def rated_ambient_C(self) -> float:
+        """The highest ambient at the resistor's full rating in force [°C] (70 °C when not given)."""
+        from partpick.physics.eseries import RESISTOR_RATED_AMBIENT_C
+
+        return RESISTOR_RATED_AMBIENT_C if self.resistor_rated_ambient_C is None else self.resistor_rated_ambient_C
+
+    @property
+    def zero_power_C(self) -> float:
+        """The ambient at which the resistor's rating reaches zero [°C] (155 °C when not given)."""
+        from partpick.physics.eseries import RESISTOR_ZERO_POWER_C
+
+        return RESISTOR_ZERO_POWER_C if self.resistor_zero_power_C is None else self.resistor_zero_power_C
+
     def to_dict(self) -> dict:
         out = {f.name: getattr(self, f.name) for f in fields(self)}
         out["resistor_tolerance_pct"] = self.resistor_tolerance
+        out["resistor_rated_ambient_C"] = self.rated_ambient_C
+        out["resistor_zero_power_C"] = self.zero_power_C
         return out
 
 
@@ -606,8 +624,10 @@ def _zener_table(reader: _Reader, table) -> ZenerRequirement:
             reader.fail("vz_distribution", f"{shape!r} is not one of {', '.join(VZ_DISTRIBUTIONS)}"
                         f"{_suggest(str(shape), VZ_DISTRIBUTIONS)}", "zener")
         values["vz_distribution"] = shape
-    rated = values.get("resistor_rated_ambient_C", ZENER_DEFAULTS["resistor_rated_ambient_C"])
-    zero = values.get("resistor_zero_power_C", ZENER_DEFAULTS["resistor_zero_power_C"])
+    from partpick.physics.eseries import RESISTOR_RATED_AMBIENT_C, RESISTOR_ZERO_POWER_C
+
+    rated = values.get("resistor_rated_ambient_C", RESISTOR_RATED_AMBIENT_C)
+    zero = values.get("resistor_zero_power_C", RESISTOR_ZERO_POWER_C)
     if zero <= rated:
         key = "resistor_zero_power_C" if "resistor_zero_power_C" in table else "resistor_rated_ambient_C"
         reader.fail(key, f"the resistor's zero-power ambient ({zero:g} °C) must be above its full-rating "

@@ -269,8 +269,8 @@ class ZenerShuntRole(Role):
         # [zener].resistor_rating_W when a finished design gives its resistor's rating).
         res_pct, res_src = limit_array(limits, groups, "resistor_power_pct")
         fraction = res_pct / 100.0
-        derate = resistor_derating(ambient_K, zr.resistor_rated_ambient_C + ZERO_CELSIUS_K,
-                                   zr.resistor_zero_power_C + ZERO_CELSIUS_K)  # (P, K), 1 up to 70 °C
+        derate = resistor_derating(ambient_K, zr.rated_ambient_C + ZERO_CELSIUS_K,
+                                   zr.zero_power_C + ZERO_CELSIUS_K)  # (P, K), 1 up to 70 °C
         p_res_max, p_res_col = worst_value(p_resistor, "max")
         known = np.isfinite(p_resistor)
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -284,10 +284,10 @@ class ZenerShuntRole(Role):
         else:
             rating = np.where(np.isfinite(klass), klass, largest)
         rating = np.where(unsolved, np.nan, rating)
-        derate_text = (f"full rating up to {zr.resistor_rated_ambient_C:g} °C ambient, linear to zero at "
-                       f"{zr.resistor_zero_power_C:g} °C")
+        derate_text = (f"full rating up to {zr.rated_ambient_C:g} °C ambient, linear to zero at "
+                       f"{zr.zero_power_C:g} °C")
         derate_text += (" (film resistors, common practice)"
-                        if (zr.resistor_rated_ambient_C, zr.resistor_zero_power_C) == (70.0, 155.0)
+                        if zr.resistor_rated_ambient_C is None and zr.resistor_zero_power_C is None
                         else " (requirement [zener].resistor_rated_ambient_C, resistor_zero_power_C)")
         if zr.resistor_rating_W is not None:
             rating_texts = [f"the resistor's rating {zr.resistor_rating_W:g} W (requirement [zener].resistor_rating_W)"]
@@ -311,8 +311,8 @@ class ZenerShuntRole(Role):
         hottest_C = ov.ambient_max(req, count)
         r_low = r_nominal * (1 - tolerance_pct / 100.0)
         p_short = np.where(unsolved, np.nan, req.supply_max_V ** 2 / r_low)
-        derate_hot = resistor_derating(hottest_C + ZERO_CELSIUS_K, zr.resistor_rated_ambient_C + ZERO_CELSIUS_K,
-                                       zr.resistor_zero_power_C + ZERO_CELSIUS_K)
+        derate_hot = resistor_derating(hottest_C + ZERO_CELSIUS_K, zr.rated_ambient_C + ZERO_CELSIUS_K,
+                                       zr.zero_power_C + ZERO_CELSIUS_K)
         if zr.short_circuit:
             sc_texts = [f"100 % of {t} (a fault: the policy's share does not apply), {derate_text}"
                         for t in rating_texts]
