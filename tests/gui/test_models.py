@@ -379,3 +379,14 @@ def test_zener_group_carries_the_resistor_rating_derating_short_circuit_and_yiel
     assert built.short_circuit is False and built.vz_distribution == "uniform" and built.resistor_rating_W == 0.25
     model.set_text("vz_distribution", "gauss")
     assert "is not one of normal, uniform" in model.errors()["vz_distribution"]
+
+
+def test_a_refused_fit_shows_the_best_model_and_its_residuals():
+    model = PartEditModel(None)
+    model.set_text("vf_points", "10 mA, 0.65\n100 mA, 0.75\n1 A, 0.92\n5 A, 1.15")
+    preview = model.fit_preview()
+    assert preview.fit is None and preview.refused is not None  # never usable as the part's model
+    assert "misses the points" in preview.error and "What to change" in preview.error
+    assert len(preview.residuals_mV) == 4 and max(abs(r) for r in preview.residuals_mV) > 5.0
+    curve_i, curve_v = preview.curve
+    assert all(v == v and abs(v) < 10 for v in curve_v)  # finite volts along the best model
