@@ -83,7 +83,13 @@ ZENER_DEFAULTS: dict[str, Any] = {
     "resistor_series": "E24",
     "resistor_tolerance_pct": None,    # derived: 5 % E12/E24, 1 % E48/E96
     "resistor_ohm": None,              # chosen from the series
+    "resistor_rating_W": None,         # the chosen power class
+    "resistor_rated_ambient_C": None,  # derived: 70 °C, full class rating up to here (film resistors)
+    "resistor_zero_power_C": None,     # derived: 155 °C, linearly to none here
+    "short_circuit": True,             # check an output short against the resistor's rating
+    "vz_distribution": "normal",       # yield: Vz normal with tolerance = 3σ, or "uniform" (binned parts)
 }
+VZ_DISTRIBUTIONS = ("normal", "uniform")
 # The [thermal] table (SPEC §3a): how the part is mounted.
 MOUNTS = ("board", "heatsink")
 THERMAL_DEFAULTS: dict[str, Any] = {
@@ -94,6 +100,9 @@ DEFAULT_RULES = {
     "zener.min_zener_current_A": "each part's izk_A",
     "zener.resistor_tolerance_pct": "5 % for E12/E24, 1 % for E48/E96",
     "zener.resistor_ohm": "the largest value of resistor_series that keeps Iz ≥ Iz min",
+    "zener.resistor_rating_W": "the smallest power class covering the resistor's power",
+    "zener.resistor_rated_ambient_C": "70 °C (film resistors, common practice)",
+    "zener.resistor_zero_power_C": "155 °C (film resistors, common practice)",
     "handover": "true: the series diode blocks straight from its hot, conducting state (false: from switch-on)",
 }
 
@@ -127,6 +136,9 @@ _ZENER_KEY_RULES: dict[str, tuple] = {
     "min_zener_current_A": (_NUM, 0.0, False, 100.0),
     "resistor_tolerance_pct": (_NUM, 0.0, True, 50.0),
     "resistor_ohm": (_NUM, 0.0, False, 1e9),
+    "resistor_rating_W": (_NUM, 0.0, False, 1e6),
+    "resistor_rated_ambient_C": (_NUM, AMBIENT_RANGE_C[0], True, AMBIENT_RANGE_C[1]),
+    "resistor_zero_power_C": (_NUM, AMBIENT_RANGE_C[0], True, 1000.0),
 }
 _THERMAL_KEY_RULES: dict[str, tuple] = {
     "copper_area_mm2": (_NUM, 0.0, False, 1e6),
@@ -154,6 +166,11 @@ class ZenerRequirement:
     resistor_series: str = ZENER_DEFAULTS["resistor_series"]
     resistor_tolerance_pct: float | None = ZENER_DEFAULTS["resistor_tolerance_pct"]
     resistor_ohm: float | None = ZENER_DEFAULTS["resistor_ohm"]
+    resistor_rating_W: float | None = ZENER_DEFAULTS["resistor_rating_W"]
+    resistor_rated_ambient_C: float | None = ZENER_DEFAULTS["resistor_rated_ambient_C"]
+    resistor_zero_power_C: float | None = ZENER_DEFAULTS["resistor_zero_power_C"]
+    short_circuit: bool = ZENER_DEFAULTS["short_circuit"]
+    vz_distribution: str = ZENER_DEFAULTS["vz_distribution"]
 
     @property
     def resistor_tolerance(self) -> float:
@@ -164,9 +181,25 @@ class ZenerRequirement:
 
         return default_tolerance_pct(self.resistor_series)
 
+    @property
+    def rated_ambient_C(self) -> float:
+        """The highest ambient at the resistor's full rating in force [°C] (70 °C when not given)."""
+        from partpick.physics.eseries import RESISTOR_RATED_AMBIENT_C
+
+        return RESISTOR_RATED_AMBIENT_C if self.resistor_rated_ambient_C is None else self.resistor_rated_ambient_C
+
+    @property
+    def zero_power_C(self) -> float:
+        """The ambient at which the resistor's rating reaches zero [°C] (155 °C when not given)."""
+        from partpick.physics.eseries import RESISTOR_ZERO_POWER_C
+
+        return RESISTOR_ZERO_POWER_C if self.resistor_zero_power_C is None else self.resistor_zero_power_C
+
     def to_dict(self) -> dict:
         out = {f.name: getattr(self, f.name) for f in fields(self)}
         out["resistor_tolerance_pct"] = self.resistor_tolerance
+        out["resistor_rated_ambient_C"] = self.rated_ambient_C
+        out["resistor_zero_power_C"] = self.zero_power_C
         return out
 
 
@@ -296,6 +329,9 @@ class Requirement:
                 value = value.given
             data[key] = value
         data = {k: v for k, v in data.items() if v is not None}
+        for key in ("zener", "thermal"):  # keys not given stay not given (None is not a TOML value)
+            if isinstance(data.get(key), dict):
+                data[key] = {k: v for k, v in data[key].items() if v is not None}
         return requirement_from_dict(data, self.source)
 
     def to_raw_dict(self) -> dict:
@@ -593,6 +629,24 @@ def _zener_table(reader: _Reader, table) -> ZenerRequirement:
             reader.fail("resistor_series", f"{series!r} is not one of {', '.join(RESISTOR_SERIES)}"
                         f"{_suggest(str(series), RESISTOR_SERIES)}", "zener")
         values["resistor_series"] = series.upper()
+    if "short_circuit" in table:
+        if not isinstance(table["short_circuit"], bool):
+            reader.fail("short_circuit", f"{table['short_circuit']!r} is not true or false", "zener")
+        values["short_circuit"] = table["short_circuit"]
+    if "vz_distribution" in table:
+        shape = table["vz_distribution"]
+        if not isinstance(shape, str) or shape not in VZ_DISTRIBUTIONS:
+            reader.fail("vz_distribution", f"{shape!r} is not one of {', '.join(VZ_DISTRIBUTIONS)}"
+                        f"{_suggest(str(shape), VZ_DISTRIBUTIONS)}", "zener")
+        values["vz_distribution"] = shape
+    from partpick.physics.eseries import RESISTOR_RATED_AMBIENT_C, RESISTOR_ZERO_POWER_C
+
+    rated = values.get("resistor_rated_ambient_C", RESISTOR_RATED_AMBIENT_C)
+    zero = values.get("resistor_zero_power_C", RESISTOR_ZERO_POWER_C)
+    if zero <= rated:
+        key = "resistor_zero_power_C" if "resistor_zero_power_C" in table else "resistor_rated_ambient_C"
+        reader.fail(key, f"the resistor's zero-power ambient ({zero:g} °C) must be above its full-rating "
+                         f"ambient resistor_rated_ambient_C ({rated:g} °C)", "zener")
     return ZenerRequirement(**values)
 
 

@@ -469,8 +469,9 @@ def run_check(requirement, parts: list[dict], *, policies: dict | None = None, l
     entries = _candidate_entries(evaluation, listed)
     if yield_runs is not None and listed.size:
         yields = role.yield_pct(requirement, evaluation.parts, evaluation.result, listed, yield_runs, seed)
-        for entry, y in zip(entries, yields):
-            entry["metrics"]["yield_pct"] = finite_or_none(y)
+        for j, entry in enumerate(entries):
+            for key, values in yields.items():  # yield_pct and its 95 % interval
+                entry["metrics"][key] = finite_or_none(values[j])
     _add_limits_and_sensitivity(evaluation, listed[:analyse] if analyse else listed[:0], entries,
                                 listed.size - min(analyse or 0, listed.size))
     if reference is not None:

@@ -145,6 +145,16 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
         help="± tolerance (default 5 % E12/E24, 1 % E48/E96)."),
     _zf("resistor_ohm", "Fixed resistor", "Ω", minimum=0.0,
         help="Review a finished design with this resistor instead of sizing one."),
+    _zf("resistor_rating_W", "Resistor rating", "W", minimum=0.0,
+        help="A finished design's resistor rating at 70 °C (default: the smallest power class that covers it)."),
+    _zf("resistor_rated_ambient_C", "Resistor full rating to", "°C",
+        help="Highest ambient at the full rating (default 70 °C, film resistors)."),
+    _zf("resistor_zero_power_C", "Resistor zero power at", "°C",
+        help="Ambient where the resistor's rating reaches zero, linearly (default 155 °C)."),
+    _zf("short_circuit", "Output short check", "", kind="choice", choices=("true", "false"),
+        help="Check an output short (supply max across the resistor) against its rating (default true)."),
+    _zf("vz_distribution", "Vz spread (yield)", "", kind="choice", choices=("normal", "uniform"),
+        help="Yield draws Vz normal with tolerance = 3σ, or uniform for binned parts (default normal)."),
 )
 
 

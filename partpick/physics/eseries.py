@@ -7,7 +7,8 @@ import numpy as np
 from partpick.physics._validate import positive, scalar_or_array
 
 __all__ = ["SERIES_NAMES", "series_values", "largest_at_most", "smallest_at_least",
-           "default_tolerance_pct", "RESISTOR_POWER_CLASSES_W", "smallest_power_class"]
+           "default_tolerance_pct", "RESISTOR_POWER_CLASSES_W", "smallest_power_class", "resistor_derating",
+           "RESISTOR_RATED_AMBIENT_C", "RESISTOR_ZERO_POWER_C"]
 
 # IEC 60063:2015, one decade each. E24 has eight values (2.7 3.0 3.3 3.6 3.9
 # 4.3 4.7 8.2) that are not the rounded geometric series, so the lists are
@@ -27,11 +28,18 @@ _SERIES = {
     "E48": _E96[::2],
     "E96": _E96,
 }
+# The tables' significant digits: 2 for E12/E24, 3 for E48/E96 (IEC 60063 prints them so).
+_DIGITS = {"E12": 2, "E24": 2, "E48": 3, "E96": 3}
 SERIES_NAMES = tuple(_SERIES)
 _TOLERANCE_PCT = {"E12": 5.0, "E24": 5.0, "E48": 1.0, "E96": 1.0}
 
 RESISTOR_POWER_CLASSES_W = (0.125, 0.25, 0.5, 1.0, 2.0, 3.0, 5.0)
 """Standard resistor power ratings [W] (common practice)."""
+
+RESISTOR_RATED_AMBIENT_C = 70.0
+"""Film resistors carry their full class rating up to this ambient [°C] (common practice)."""
+RESISTOR_ZERO_POWER_C = 155.0
+"""... and none at this ambient, linearly in between [°C] (common practice)."""
 
 # Relative slack when comparing against table values, so that 4.7e3 counts as
 # exactly the E24 value 4.7 k despite binary rounding.
@@ -54,6 +62,22 @@ def default_tolerance_pct(name: str) -> float:
     """Usual tolerance of resistors sold in that series [%]: 5 % E12/E24, 1 % E48/E96 (common practice)."""
     _table(name)
     return _TOLERANCE_PCT[name.upper()]
+
+
+def _exact(table_value, exponent, name: str):
+    """table value × 10^exponent as the double nearest the decimal number (820, never 819.9999999).
+
+    The table value is an integer of the table's significant digits (8.2 → 82) and the power of ten
+    an exact double (|k| ≤ 22), so one multiplication or division rounds once, to the nearest
+    double of the decimal value.
+    """
+    digits = _DIGITS[name.upper()]
+    whole = np.rint(np.asarray(table_value, dtype=float) * 10.0 ** (digits - 1))
+    k = np.asarray(exponent, dtype=float) - (digits - 1)
+    with np.errstate(over="ignore"):
+        up = whole * 10.0 ** np.maximum(k, 0.0)
+        down = whole / 10.0 ** np.maximum(-k, 0.0)
+    return np.where(k >= 0, up, down)
 
 
 def _split(x):
@@ -80,7 +104,8 @@ def largest_at_most(value, name: str = "E24"):
     table = _table(name)
     mantissa, exponent = _split(x)
     idx = np.searchsorted(table, mantissa * (1 + _REL), side="right") - 1
-    result = np.where(idx >= 0, table[np.maximum(idx, 0)] * 10.0**exponent, table[-1] * 10.0 ** (exponent - 1))
+    result = np.where(idx >= 0, _exact(table[np.maximum(idx, 0)], exponent, name),
+                      _exact(table[-1], exponent - 1, name))
     return scalar_or_array(result, value)
 
 
@@ -90,8 +115,8 @@ def smallest_at_least(value, name: str = "E24"):
     table = _table(name)
     mantissa, exponent = _split(x)
     idx = np.searchsorted(table, mantissa * (1 - _REL), side="left")
-    result = np.where(idx < table.size, table[np.minimum(idx, table.size - 1)] * 10.0**exponent,
-                      table[0] * 10.0 ** (exponent + 1))
+    result = np.where(idx < table.size, _exact(table[np.minimum(idx, table.size - 1)], exponent, name),
+                      _exact(table[0], exponent + 1, name))
     return scalar_or_array(result, value)
 
 
@@ -103,3 +128,29 @@ def smallest_power_class(power, derating_fraction=1.0):
     idx = np.searchsorted(usable, P * (1 - _REL), side="left")
     result = np.where(idx < classes.size, classes[np.minimum(idx, classes.size - 1)], np.nan)
     return scalar_or_array(result, power)
+
+
+def resistor_derating(ambient, rated_ambient, zero_power):
+    """Fraction of a resistor's class rating usable at an ambient (linear derating).
+
+    Parameters
+    ----------
+    ambient : array_like
+        Ambient temperature [K].
+    rated_ambient : array_like
+        Highest ambient at full rating [K] (70 °C for film resistors, common practice).
+    zero_power : array_like
+        Ambient at which the rating reaches zero [K], > ``rated_ambient`` (155 °C, common practice).
+
+    Returns
+    -------
+    ndarray or float
+        1 up to ``rated_ambient``, falling linearly to 0 at ``zero_power``, 0 above.
+    """
+    Ta = positive("ambient", ambient)
+    rated = positive("rated_ambient", rated_ambient)
+    zero = positive("zero_power", zero_power)
+    if np.any(zero <= rated):
+        raise ValueError(f"zero_power must be above rated_ambient, got {float(np.min(zero))!r} "
+                         f"≤ {float(np.max(rated))!r}")
+    return scalar_or_array(np.clip((zero - Ta) / (zero - rated), 0.0, 1.0), ambient, rated_ambient, zero_power)

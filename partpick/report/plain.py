@@ -153,6 +153,20 @@ def _margin_text(value) -> str:
     return "—" if value is None else f"{value:+.1f} %".replace("-", "−")
 
 
+_SHORT_HEADERS = {"yield_pct": "Yield per build over every corner (95 % interval)"}
+
+
+def yield_text(metrics: dict) -> str:
+    """``yield_pct`` with its 95 % Wilson interval: "99.50 % (99.10–99.80 %)"; "—" without a yield run."""
+    value = metrics.get("yield_pct")
+    if value is None:
+        return "—"
+    low, high = metrics.get("yield_low_pct"), metrics.get("yield_high_pct")
+    if low is None or high is None:
+        return f"{value:.2f} %"
+    return f"{value:.2f} % ({low:.2f}–{high:.2f} %)"
+
+
 def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[list[str], list[list[str]]]:
     """Header and rows of the ranked shortlist, as text (shared by the table and the HTML report)."""
     role = (result.get("requirement") or {}).get("role", "series")
@@ -160,7 +174,7 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
     if any((c.get("metrics") or {}).get("yield_pct") is not None for c in result.get("candidates", [])):
         keys = keys + ("yield_pct",)
     header = ["Rank", "Part", "Kind", "Package", "Result", "First failing check", "Smallest margin"]
-    header += [f"{METRIC_LABELS[k]}" for k in keys] + ["Price", "Lifecycle"]
+    header += [_SHORT_HEADERS.get(k, METRIC_LABELS[k]) for k in keys] + ["Price", "Lifecycle"]
     parts_by_number = parts_by_number or {}
     rows = []
     for c in result.get("candidates", []):
@@ -181,7 +195,8 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
         row = [str(c.get("rank", "")), clean_text(c.get("part_number")), clean_text(c.get("kind")),
                clean_text(c.get("package") or "—"), "pass" if c.get("passed") else "FAIL", failing,
                _margin_text(smallest_margin(c))]
-        row += [format_value(metrics.get(k), metric_unit(k)) for k in keys]
+        row += [yield_text(metrics) if k == "yield_pct" else format_value(metrics.get(k), metric_unit(k))
+                for k in keys]
         row += [price_text(part.get("price")),
                 clean_text(part.get("lifecycle") or "—")]
         rows.append(row)
@@ -216,6 +231,10 @@ def check_sheet_lines(candidate: dict) -> list[str]:
                      _margin_text(check.get("margin_pct")), corner_text(check.get("corner")),
                      clean_text(check.get("limit_source") or "")])
     lines += _aligned(header, rows, numeric={1, 2, 4})
+    notes = [(CHECK_LABELS.get(c.get("name"), clean_text(c.get("name"))), clean_text(c["note"]))
+             for c in candidate.get("checks", []) if c.get("note")]
+    if notes:  # what a value means where the corner alone does not say it (e.g. the output short)
+        lines += ["", "Notes:"] + [f"  {label}: {text}" for label, text in notes]
     metrics = candidate.get("metrics") or {}
     keys = [k for k in METRIC_ORDER if k in metrics] + sorted(set(metrics) - set(METRIC_ORDER))
     if keys:

@@ -33,6 +33,7 @@ CHECK_LABELS = {
     "zener_power": "Zener power",
     "regulation_error": "Regulation error",
     "resistor_power": "Resistor power",
+    "short_circuit": "Output short (resistor)",
 }
 
 # SPEC §5 metric keys in their order.
@@ -41,7 +42,8 @@ METRIC_ORDER = (
     "reverse_headroom_V", "reverse_stress_pct", "leakage_A", "reverse_power_W", "vth0_V", "ron_ohm",
     "series_resistor_ohm", "resistor_power_W", "resistor_power_class_W", "zener_current_min_A",
     "zener_current_max_A", "zener_power_W", "regulation_error_pct", "line_regulation_mV_per_V",
-    "load_regulation_mV_per_mA", "yield_pct",
+    "load_regulation_mV_per_mA", "line_regulation_worst_mV_per_V", "load_regulation_worst_mV_per_mA",
+    "short_circuit_power_W", "yield_pct", "yield_low_pct", "yield_high_pct",
 )
 METRIC_LABELS = {
     "forward_drop_V": "Forward drop", "output_min_V": "Output min", "output_max_V": "Output max",
@@ -52,7 +54,12 @@ METRIC_LABELS = {
     "resistor_power_class_W": "Resistor class", "zener_current_min_A": "Iz min", "zener_current_max_A": "Iz max",
     "zener_power_W": "Zener power", "regulation_error_pct": "Regulation error",
     "line_regulation_mV_per_V": "Line regulation", "load_regulation_mV_per_mA": "Load regulation",
-    "yield_pct": "Yield",
+    "line_regulation_worst_mV_per_V": "Line regulation at the lowest Iz",
+    "load_regulation_worst_mV_per_mA": "Load regulation at the lowest Iz",
+    "short_circuit_power_W": "Resistor power, output shorted",
+    "yield_pct": "Yield (per build over every corner)",
+    "yield_low_pct": "Yield, 95 % interval low (Wilson)",
+    "yield_high_pct": "Yield, 95 % interval high (Wilson)",
     "max_ambient_C": "Max ambient", "max_load_A": "Max load", "max_rth_ja_K_per_W": "Max RthJA",
     "max_rth_sa_K_per_W": "Smallest heatsink (max RthSA)", "min_copper_area_mm2": "Min copper area",
 }

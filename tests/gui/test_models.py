@@ -360,6 +360,27 @@ def test_check_table_with_part_is_the_full_check_sheet(tmp_path):
     assert "Worst-case values:" in text
 
 
+def test_zener_group_carries_the_resistor_rating_derating_short_circuit_and_yield_keys():
+    from partpick.checks.requirement import ZENER_KEYS
+    from partpick.gui.models import FIELDS_BY_KEY
+
+    # Every [zener] key has a field in the window's Zener group.
+    assert {k for k, f in FIELDS_BY_KEY.items() if f.table == "zener"} == set(ZENER_KEYS)
+    model = RequirementModel()
+    model.set_text("role", "zener_shunt")
+    for key, text in (("resistor_rating_W", "250 mW"), ("resistor_rated_ambient_C", "85"),
+                      ("resistor_zero_power_C", "150"), ("short_circuit", "false"), ("vz_distribution", "uniform")):
+        model.set_text(key, text)
+    zener = model.requirement_dict()["zener"]
+    assert zener["resistor_rating_W"] == pytest.approx(0.25) and zener["short_circuit"] is False
+    assert zener["resistor_rated_ambient_C"] == 85.0 and zener["resistor_zero_power_C"] == 150.0
+    assert zener["vz_distribution"] == "uniform"
+    built = model.build_requirement().zener
+    assert built.short_circuit is False and built.vz_distribution == "uniform" and built.resistor_rating_W == 0.25
+    model.set_text("vz_distribution", "gauss")
+    assert "is not one of normal, uniform" in model.errors()["vz_distribution"]
+
+
 def test_a_refused_fit_shows_the_best_model_and_its_residuals():
     model = PartEditModel(None)
     model.set_text("vf_points", "10 mA, 0.65\n100 mA, 0.75\n1 A, 0.92\n5 A, 1.15")

@@ -80,3 +80,35 @@ def test_bad_series_and_values_are_refused():
         series_values("E7")
     with pytest.raises(ValueError, match="value must be > 0"):
         largest_at_most(0.0)
+
+
+@pytest.mark.parametrize("name, digits", [("E24", [f"{v:.1f}".replace(".", "") for v in PUBLISHED_E24]),
+                                          ("E96", [str(v) for v in PUBLISHED_E96])])
+def test_values_are_exact_decimals_across_decades(name, digits):
+    # IEC 60063 tables (REFERENCES.md) as digit strings: each value × 10^k must be the double that Python's
+    # correctly rounded decimal parser gives for the written number ("82e1" → 820.0, never 819.9999999).
+    sig = len(digits[0])
+    for exponent in range(-3, 8):
+        for d in digits:
+            written = float(f"{d}e{exponent - (sig - 1)}")
+            assert largest_at_most(written, name) == written, (d, exponent)
+            assert smallest_at_least(written, name) == written, (d, exponent)
+            assert repr(largest_at_most(written * 1.0001, name)) == repr(written)
+    assert repr(largest_at_most(830.0, "E24")) == "820.0"
+    assert repr(largest_at_most(0.0083, "E24")) == "0.0082"
+    assert repr(largest_at_most(3.33e5, "E24")) == "330000.0"
+    assert repr(smallest_at_least(1.2e-3 * 1.05, "E12")) == "0.0015"
+
+
+def test_resistor_derating_with_ambient():
+    from partpick.physics.eseries import resistor_derating
+
+    K = 273.15
+    # Common practice for film resistors: full rating to 70 °C, linear to zero at 155 °C.
+    assert resistor_derating(25.0 + K, 70.0 + K, 155.0 + K) == 1.0
+    assert resistor_derating(70.0 + K, 70.0 + K, 155.0 + K) == pytest.approx(1.0)
+    assert resistor_derating(100.0 + K, 70.0 + K, 155.0 + K) == pytest.approx(55.0 / 85.0)  # by hand: 0.647
+    assert resistor_derating(112.5 + K, 70.0 + K, 155.0 + K) == pytest.approx(0.5)
+    assert resistor_derating(160.0 + K, 70.0 + K, 155.0 + K) == 0.0
+    with pytest.raises(ValueError, match="zero_power must be above rated_ambient"):
+        resistor_derating(300.0, 350.0, 340.0)

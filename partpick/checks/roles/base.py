@@ -193,6 +193,10 @@ class Role:
         raise NotImplementedError
 
     def yield_pct(self, requirement, parts, result: RoleResult, index: np.ndarray, runs: int,
-                  seed: int) -> np.ndarray:  # pragma: no cover - interface
-        """Monte Carlo yield [%] of the candidates ``index`` (roles with ``supports_yield``)."""
+                  seed: int) -> dict[str, np.ndarray]:  # pragma: no cover - interface
+        """Monte Carlo yield of the candidates ``index`` (roles with ``supports_yield``).
+
+        Returns metric key → (len(index),) [%]: ``yield_pct`` and its 95 % interval
+        ``yield_low_pct``, ``yield_high_pct``.
+        """
         raise NotImplementedError

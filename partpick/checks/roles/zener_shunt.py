@@ -27,7 +27,7 @@ from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_n
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
 from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.physics.constants import T0_K, ZERO_CELSIUS_K
-from partpick.physics.eseries import RESISTOR_POWER_CLASSES_W, largest_at_most, smallest_power_class
+from partpick.physics.eseries import RESISTOR_POWER_CLASSES_W, largest_at_most, resistor_derating, smallest_power_class
 from partpick.physics.zener import ZenerModel, solve_shunt
 
 __all__ = ["ZenerShuntRole", "ROLE", "zener_models_of", "choose_resistor"]
@@ -114,6 +114,21 @@ class ZenerShuntRole(Role):
 
         return zener_shunt_curves(requirement, part, candidate, notes)
     supports_yield = True
+    method_notes = (
+        "Every corner (supply × load × ambient) is solved at both ends of the Vz tolerance and both ends of the "
+        "resistor tolerance, Vout, Iz and Tj together (self-heated).",
+        "The resistor's power rating falls with ambient: the full class rating up to 70 °C, linearly to zero at "
+        "155 °C (film resistors, common practice; [zener].resistor_rated_ambient_C and resistor_zero_power_C "
+        "override). The class is the smallest whose rating, so derated and at the policy's percentage, covers "
+        "the resistor's power at every corner.",
+        "Output short: the highest supply across the resistor's low end, against 100 % of its rating derated to "
+        "the hottest ambient (a fault, so the policy's percentage does not apply).",
+        "Line and load regulation are small-signal figures, 1000·Z/(R + Z) and −(R ∥ Z), at Izt and at the "
+        "corner of lowest Iz, with Z from the knee curve there.",
+        "Yield (--yield N) is per build over every corner: each build draws Vz (normal, tolerance = 3σ, or "
+        "uniform for binned parts) and R (normal, tolerance = 3σ) and passes only if Vout stays within the "
+        "regulation limit and Iz ≥ Iz min at all corners; the 95 % interval is Wilson's score interval.",
+    )
     part_inputs = ("vz_V", "vz_tol_pct", "izt_A", "zzt_ohm", "izk_A", "zzk_ohm", "vz_tc_pct_per_K", "pd_W",
                    "pd_ref_C", "tj_max_C", "rth_ja_K_per_W", "rth_jc_K_per_W", "rth_ja_large_K_per_W")
 
@@ -146,7 +161,7 @@ class ZenerShuntRole(Role):
         zener_needs = [("vz_V",), ("vz_tol_pct",), ("izt_A",), ("zzt_ohm",)] + thermal_needs
         iz_min_needs = [] if zr.min_zener_current_A is not None else [("izk_A",)]
         for check in ("feasible", "zener_current_min", "zener_power", "junction_temp", "regulation_error",
-                      "resistor_power"):
+                      "resistor_power") + (("short_circuit",) if zr.short_circuit else ()):
             needs.require(check, *zener_needs, *iz_min_needs)
         bad = needs.any_missing()
 
@@ -249,31 +264,67 @@ class ZenerShuntRole(Role):
             "regulation_error", "%", error, np.full(count, zr.max_regulation_error_pct), ids, "max",
             "requirement [zener].max_regulation_error_pct", reasons=unsolved_reasons, invalid=unsolved))
 
-        # resistor_power: the smallest class whose derated rating covers the worst power; fails above 5 W.
+        # resistor_power: the smallest class whose rating, derated by the policy and by the corner's
+        # ambient, covers the power at every point; fails only above the largest class (or above
+        # [zener].resistor_rating_W when a finished design gives its resistor's rating).
         res_pct, res_src = limit_array(limits, groups, "resistor_power_pct")
-        p_res_max, p_res_col = worst_value(p_resistor, "max")
         fraction = res_pct / 100.0
-        klass = np.full(count, np.nan)
-        for value in np.unique(fraction):  # one derating fraction per kind group: at most three passes
-            sel = fraction == value
-            klass[sel] = smallest_power_class(np.where(np.isfinite(p_res_max[sel]), p_res_max[sel], 0.0), value)
+        derate = resistor_derating(ambient_K, zr.rated_ambient_C + ZERO_CELSIUS_K,
+                                   zr.zero_power_C + ZERO_CELSIUS_K)  # (P, K), 1 up to 70 °C
+        p_res_max, p_res_col = worst_value(p_resistor, "max")
+        known = np.isfinite(p_resistor)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            needed = np.where(known & (p_resistor > 0), p_resistor / (fraction[:, None] * derate), 0.0)
+        klass = smallest_power_class(np.max(needed, axis=1), 1.0)
         klass = np.where(np.isfinite(p_res_max), klass, np.nan)
         klass = np.asarray(ov.choice("resistor_class_W", klass), dtype=float)  # held fixed for limits
-        rated = np.where(np.isfinite(klass), klass, RESISTOR_POWER_CLASSES_W[-1]) * fraction
-        rated = np.where(unsolved, np.nan, rated)
-        class_index = np.where(np.isfinite(klass), np.searchsorted(RESISTOR_POWER_CLASSES_W, klass), 
-                               len(RESISTOR_POWER_CLASSES_W))
+        largest = RESISTOR_POWER_CLASSES_W[-1]
+        if zr.resistor_rating_W is not None:
+            rating = np.full(count, zr.resistor_rating_W)
+        else:
+            rating = np.where(np.isfinite(klass), klass, largest)
+        rating = np.where(unsolved, np.nan, rating)
+        derate_text = (f"full rating up to {zr.rated_ambient_C:g} °C ambient, linear to zero at "
+                       f"{zr.zero_power_C:g} °C")
+        derate_text += (" (film resistors, common practice)"
+                        if zr.resistor_rated_ambient_C is None and zr.resistor_zero_power_C is None
+                        else " (requirement [zener].resistor_rated_ambient_C, resistor_zero_power_C)")
+        if zr.resistor_rating_W is not None:
+            rating_texts = [f"the resistor's rating {zr.resistor_rating_W:g} W (requirement [zener].resistor_rating_W)"]
+            rating_index = np.zeros(count, dtype=int)
+        else:
+            rating_texts = [f"the {k:g} W class rating" for k in RESISTOR_POWER_CLASSES_W]
+            rating_texts.append(f"the largest class ({largest:g} W)")
+            rating_index = np.where(np.isfinite(klass), np.searchsorted(RESISTOR_POWER_CLASSES_W, klass),
+                                    len(RESISTOR_POWER_CLASSES_W))
         texts = []
         for g, name in enumerate(("pn", "schottky", "zener")):
             pct_text = f"{res_src[g]}: {limits[name]['resistor_power_pct'].value:g} % of "
-            texts += [pct_text + f"the {k:g} W class rating" for k in RESISTOR_POWER_CLASSES_W]
-            texts.append(pct_text + f"the largest class ({RESISTOR_POWER_CLASSES_W[-1]:g} W)")
-        res_source = object_array(texts)[groups.astype(int) * (len(RESISTOR_POWER_CLASSES_W) + 1) + class_index]
-        check = worst_case_check(
-            "resistor_power", "W", p_res_max[:, None], rated, [0], "max", res_source, reasons=unsolved_reasons,
-            invalid=unsolved)
-        check.point = np.where(unsolved, -1, ids[p_res_col])
-        checks.append(check)
+            texts += [pct_text + t + ", " + derate_text for t in rating_texts]
+        res_source = object_array(texts)[groups.astype(int) * len(rating_texts) + rating_index]
+        checks.append(worst_case_check(
+            "resistor_power", "W", p_resistor, rating[:, None] * fraction[:, None] * derate, ids, "max", res_source,
+            reasons=unsolved_reasons, invalid=unsolved))
+
+        # short_circuit: an output short puts the highest supply across the low end of R. A fault,
+        # so it is held to 100 % of the rating derated to the hottest ambient, not the policy's share.
+        hottest_C = ov.ambient_max(req, count)
+        r_low = r_nominal * (1 - tolerance_pct / 100.0)
+        p_short = np.where(unsolved, np.nan, req.supply_max_V ** 2 / r_low)
+        derate_hot = resistor_derating(hottest_C + ZERO_CELSIUS_K, zr.rated_ambient_C + ZERO_CELSIUS_K,
+                                       zr.zero_power_C + ZERO_CELSIUS_K)
+        if zr.short_circuit:
+            sc_texts = [f"100 % of {t} (a fault: the policy's share does not apply), {derate_text}"
+                        for t in rating_texts]
+            check = worst_case_check(
+                "short_circuit", "W", p_short[:, None], rating * derate_hot, [0], "max",
+                object_array(sc_texts)[rating_index], reasons=unsolved_reasons, invalid=unsolved)
+            amb_end = np.where(hottest_C > req.ambient_min_C, 1, 0)
+            check.point = np.where(unsolved, -1, np.array([_point_id(1, 0, 0, 0, 0), _point_id(1, 0, 1, 0, 0)])[amb_end])
+            check.note = object_array(None, count)
+            check.note[~unsolved] = ("output shorted: supply max across the resistor's low end R·(1 − tol), "
+                                     "at the hottest ambient")
+            checks.append(check)
 
         any_missing = bad
         nan = np.full(count, np.nan)
@@ -291,6 +342,14 @@ class ZenerShuntRole(Role):
         tj_hi, tj_col = worst_value(tj_C, "max")
         zzt = parts.value("zzt_ohm", 10.0)
         r_ok = np.where(unsolved, np.nan, resistance)
+        # At the worst corner's (lowest) Iz, Z from the knee curve, as a conductance: a Zener that
+        # carries no current there has G = 0 (the output follows the supply through R).
+        rows = np.arange(count)
+        r_worst = np.where(unsolved, np.nan, R[rows, iz_lo_col])
+        conducting = np.isfinite(iz_lo) & (iz_lo > 0)
+        z_worst = np.ravel(nominal.impedance(np.where(conducting, iz_lo, 1.0)[:, None]))
+        g_worst = np.where(conducting, 1.0 / z_worst, 0.0)
+        rg = r_worst * g_worst
         metrics = {
             "series_resistor_ohm": np.where(bad, np.nan, resistance),
             "zener_current_min_A": iz_lo,
@@ -306,11 +365,16 @@ class ZenerShuntRole(Role):
             # (ohm = mV/mA), common practice (Sedra & Smith's shunt-regulator analysis).
             "line_regulation_mV_per_V": 1000.0 * np.where(bad, np.nan, zzt) / (r_ok + zzt),
             "load_regulation_mV_per_mA": -(r_ok * zzt) / (r_ok + zzt),
+            "line_regulation_worst_mV_per_V": 1000.0 / (1.0 + rg),
+            "load_regulation_worst_mV_per_mA": -r_worst / (1.0 + rg),
         }
+        if zr.short_circuit:
+            metrics["short_circuit_power_W"] = p_short
         metric_points = {
             "zener_current_min_A": iz_lo_col, "zener_current_max_A": iz_hi_col, "zener_power_W": pz_col,
             "output_min_V": out_lo_col, "output_max_V": out_hi_col, "regulation_error_pct": err_col,
             "junction_temp_C": tj_col, "resistor_power_W": p_res_col,
+            "line_regulation_worst_mV_per_V": iz_lo_col, "load_regulation_worst_mV_per_mA": iz_lo_col,
         }
         metric_points = {k: np.where(unsolved, -1, v) for k, v in metric_points.items()}
         internals = {
@@ -323,11 +387,11 @@ class ZenerShuntRole(Role):
             "resistor_source": object_array(resistor_source, count),
             "resistor_chosen": np.full(count, zr.resistor_ohm is None),
             "rth_ja_K_per_W": rth, "pd_W": thermal.power_rating, "tj_max_C": tj_max_C, "tj_limit_C": tj_lim,
-            "feasible": feasible, "thermal_path_note": thermal.notes, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
+            "feasible": feasible, "solved": ~unsolved, "thermal_path_note": thermal.notes, "output_voltage_V": vout, "zener_current_A": iz, "zener_tj_C": tj_C,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
 
-    def yield_pct(self, requirement, parts, result: RoleResult, index, runs: int, seed: int) -> np.ndarray:
+    def yield_pct(self, requirement, parts, result: RoleResult, index, runs: int, seed: int) -> dict:
         from partpick.checks.montecarlo import shunt_yield
 
         return shunt_yield(requirement, parts, result, index, runs, seed)
