@@ -96,6 +96,9 @@ def test_subject_is_the_part_or_the_substitutes(library, req_file, capsysbinary)
     ([], "supply_max = 3\n", "line 9: supply_max: unknown key (did you mean 'supply_max_V'?)"),
     ([], 'policy = "nope"\n', "policy 'nope' is neither built in nor in the library"),
     (["--part", "CL-A", "--substitutes-for", "CL-B"], "", "cannot be combined"),
+    # an earlier version's name of a percentage key (SPEC §4): refused with the new key named
+    ([], "current_derating_pct = 70\n", "line 9: current_derating_pct: this key was renamed: write "
+                                         "current_limit_pct = 70 instead"),
 ])
 def test_bad_input_is_exit_2_with_one_line(library, req_file, capsys, args, extra, message):
     assert main(["check", req_file(extra), "--library", library, *args]) == 2

@@ -214,7 +214,8 @@ class SeriesRole(Role):
         checks.append(worst_case_check(
             "junction_temp", "°C", tj_all_C, tj_lim, np.concatenate([steady_ids, [reverse_id]]), "max", tj_src,
             reasons=with_missing("junction_temp", forward_reasons + reverse_reasons),
-            invalid=needs.missing("junction_temp")))
+            invalid=needs.missing("junction_temp"),
+            ambient_C=np.concatenate([ambient_C, hot_K[:, None] - ZERO_CELSIUS_K], axis=1)))
         checks[-1].note = thermal.notes  # the thermal path's assumptions (SPEC §3a)
 
         # reverse_runaway: a stable reverse-state Tj must exist below Tj max.
