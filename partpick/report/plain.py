@@ -257,6 +257,30 @@ def limits_lines(candidates: list[dict]) -> list[str]:
     return out
 
 
+def policy_lines(policy: dict) -> list[str]:
+    """The limits in force per kind group, each with where it came from (SPEC §4: every output says so).
+
+    One line per group and source: ``pn, policy commercial: reverse_pct 80 %, …``.
+    """
+    limits = policy.get("limits") or {}
+    out = []
+    for group, entries in limits.items():
+        if not isinstance(entries, dict):
+            continue
+        by_source: dict[str, list[str]] = {}
+        for key, entry in entries.items():
+            if not isinstance(entry, dict) or "source" not in entry:
+                continue
+            value = entry.get("value")
+            text = "none" if value is None else f"{value:g} {entry.get('unit') or ''}".rstrip()
+            by_source.setdefault(clean_text(entry["source"]), []).append(f"{clean_text(key)} {text}")
+        for source, items in by_source.items():
+            out.append(f"  {clean_text(group)}, {source}: " + ", ".join(items))
+    if out:
+        out = ["", "Limits in force (per kind group, with where each came from):"] + out
+    return out
+
+
 def render_table(result: dict, parts_by_number: dict | None = None, *, part: str | None = None) -> bytes:
     """The ranked shortlist as an aligned text table for a terminal."""
     req = result.get("requirement") or {}
@@ -292,6 +316,7 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
                 items = [f"{k} {delta_text(v, k)}" for k, v in delta.items() if v is not None]
                 lines.append(f"  {clean_text(number)}: " + ", ".join(items))
         lines += limits_lines(result.get("candidates", []))
+        lines += policy_lines(policy)
     else:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
     subject = next((c for c in result.get("candidates", []) if c.get("part_number") == part), None) \

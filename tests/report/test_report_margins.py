@@ -102,3 +102,17 @@ def test_csv_carries_margin_limit_and_its_source(parts_by_number):
     assert float(row["reverse_voltage_margin"]) == pytest.approx(3.2)
     assert float(row["reverse_voltage_limit"]) == pytest.approx(16.0)
     assert row["reverse_voltage_limit_source"] == "policy commercial: 80 % of VRRM"
+
+
+def test_table_says_where_each_limit_came_from(parts_by_number):
+    policy = {"name": "commercial", "limits": {"pn": {
+        "reverse_pct": {"value": 80.0, "unit": "%", "source": "policy commercial"},
+        "current_pct": {"value": 60.0, "unit": "%", "source": "requirement current_limit_pct"},
+        "tj_cap_C": {"value": None, "unit": "°C", "source": "policy commercial"}}}}
+    result = {"partpick_version": "0", "requirement": dict(SERIES_REQ), "policy": policy, "library": {},
+              "candidates": [_candidate()]}
+    text = render(result, "table", parts_by_number=parts_by_number, requirement=SERIES_REQ).decode("utf-8")
+    assert "  pn, policy commercial: reverse_pct 80 %, tj_cap_C none" in text
+    assert "  pn, requirement current_limit_pct: current_pct 60 %" in text
+    html_text = render(result, "html", parts_by_number=parts_by_number, requirement=SERIES_REQ).decode("utf-8")
+    assert "requirement current_limit_pct" in html_text
