@@ -144,6 +144,14 @@ RENAMED_KEYS: dict[str, str] = {
     "power_derating_pct": "power_limit_pct",
     "resistor_power_derating_pct": "resistor_power_limit_pct",
 }
+
+
+def renamed_key_hint(key: str, value) -> str:
+    """The refusal of an earlier version's key name, naming the key to write instead."""
+    return (f"this key was renamed: write {RENAMED_KEYS[key]} = {value!r} instead "
+            "(the same number, read as \"at most this % of the rating\")")
+
+
 TOP_KEYS = tuple(dict.fromkeys(REQUIRED_KEYS + tuple(DEFAULTS) + ("zener", "thermal")))
 ZENER_KEYS = ZENER_REQUIRED_KEYS + tuple(ZENER_DEFAULTS)
 
@@ -432,8 +440,7 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     top_keys = TOP_KEYS + tuple(role_tables)
     for key in data:
         if key in RENAMED_KEYS:
-            reader.fail(key, f"this key was renamed: write {RENAMED_KEYS[key]} = {data[key]!r} instead "
-                             "(the same number, read as \"at most this % of the rating\")")
+            reader.fail(key, renamed_key_hint(key, data[key]))
         if key not in top_keys:
             reader.fail(key, f"unknown key{_suggest(key, top_keys)}")
     for key in ("name", "role"):

@@ -401,6 +401,10 @@ class RequirementModel:
     def load_dict(self, data: dict, *, source: str = "window") -> None:
         """Replace every field from a requirement dict (the TOML's keys, `[zener]` as a sub-dict)."""
         known = set(FIELDS_BY_KEY) | {"zener"} | ROLE_TABLES
+        from partpick.checks.requirement import RENAMED_KEYS, renamed_key_hint
+
+        for key in sorted(set(data) & set(RENAMED_KEYS)):
+            raise InputError(f"{source}: {key}: {renamed_key_hint(key, data[key])}")
         unknown = sorted(set(data) - known)
         if unknown:
             raise InputError(f"{source}: unknown requirement key(s) {', '.join(unknown)}")
