@@ -148,10 +148,10 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
     words = {"ambient": lambda j: f"fails at every ambient from ambient_min_C ({req.ambient_min_C:g} °C)",
              "load": lambda j: "fails even with no load",
              "thermal": lambda j: "fails even with an ideal thermal path (RthJA → 0)"}
-    ends = {"ambient": lambda j: "holds up to Tj max (the search's end)",
-            "load": lambda j: (f"holds at least to {_amperes(brackets['load'][1][j])} "
+    ends = {"ambient": lambda j: "passes up to Tj max (the search's end)",
+            "load": lambda j: (f"passes at least to {_amperes(brackets['load'][1][j])} "
                                "(10 × load_max_A, the search's end)"),
-            "thermal": lambda j: f"holds at least to {brackets['thermal'][1][j]:.3g} K/W (10 × RthJA in use)"}
+            "thermal": lambda j: f"passes at least to {brackets['thermal'][1][j]:.3g} K/W (10 × RthJA in use)"}
     for n, k in enumerate(searches):
         text = object_array(None, P)
         for j in range(P):
@@ -161,7 +161,7 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
                 text[j] = ends[k](j)
         notes[key_of[k]] = text
     if "thermal" not in searches:
-        return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index)), passed)
+        return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index), req), passed)
 
     mount = getattr(req, "thermal", None)
     rth_max = values["max_rth_ja_K_per_W"]
@@ -192,7 +192,7 @@ def operating_limits(role: Role, requirement, parts, limits: dict, base: RoleRes
                                                            "area (ln-area line extended)")
         values["min_copper_area_mm2"] = np.where(beyond, np.nan, area)
         notes["min_copper_area_mm2"] = text
-    return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index)), passed)
+    return OperatingLimits(values, notes, _summaries(values, notes, passed, _failing(base, index), req), passed)
 
 
 def _failing(base: RoleResult, index) -> list[list[str]]:
@@ -207,18 +207,26 @@ def _amperes(value: float) -> str:
     return f"{value:.3g} A"
 
 
-def _summaries(values: dict, notes: dict, passed: np.ndarray, failing: list[list[str]]) -> np.ndarray:
-    """The one-line words per candidate: where a failing part would pass, how far a passing one holds."""
+def _celsius(value: float) -> str:
+    return f"{value:.1f} °C".replace("-", "−")
+
+
+def _summaries(values: dict, notes: dict, passed: np.ndarray, failing: list[list[str]], req) -> np.ndarray:
+    """The one-line words per candidate: how far a passing part passes, where a failing one would pass."""
     P = passed.size
     out = object_array(None, P)
     for j in range(P):
         parts_ = []
         amb = values["max_ambient_C"][j] if "max_ambient_C" in values else np.nan
         if np.isfinite(amb):
-            parts_.append(f"up to {amb:.1f} °C ambient")
+            asked = getattr(req, "ambient_max_C", None)
+            short = "" if passed[j] or asked is None else f" (the requirement asks for {_celsius(asked)})"
+            parts_.append(f"up to {_celsius(amb)} ambient{short}")
         load = values["max_load_A"][j] if "max_load_A" in values else np.nan
         if np.isfinite(load):
-            parts_.append(f"up to {_amperes(load)} load")
+            asked = getattr(req, "load_max_A", None)
+            short = "" if passed[j] or asked is None else f" (the requirement asks for {_amperes(asked)})"
+            parts_.append(f"up to {_amperes(load)} load{short}")
         if "max_rth_sa_K_per_W" in values and np.isfinite(values["max_rth_sa_K_per_W"][j]):
             parts_.append(f"on a heatsink of RthSA ≤ {values['max_rth_sa_K_per_W'][j]:.3g} K/W")
         elif "min_copper_area_mm2" in values and np.isfinite(values["min_copper_area_mm2"][j]):
@@ -229,7 +237,7 @@ def _summaries(values: dict, notes: dict, passed: np.ndarray, failing: list[list
             out[j] = ("no ambient, load or thermal resistance alone makes every check pass (failing: "
                       f"{', '.join(failing[j]) or 'none'})")
             continue
-        lead = "holds " if passed[j] else "passes "
+        lead = "passes " if passed[j] else "would pass "
         # A failing part passes where one limit alone is moved, the others kept at the requirement's values.
         out[j] = lead + ", or ".join(parts_) if not passed[j] else lead + ", ".join(parts_)
     return out

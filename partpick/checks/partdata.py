@@ -22,7 +22,7 @@ from partpick.physics.thermal_path import (allowed_power_at, board_thermal_resis
 
 from partpick.checks.results import object_array
 
-__all__ = ["PART_DEFAULTS", "PartArrays", "Needs", "ThermalData", "thermal_data", "thermal_needs", "limit_array",
+__all__ = ["PART_DEFAULTS", "RS_TEMP_DEFAULT_NOTE", "PartArrays", "Needs", "ThermalData", "thermal_data", "thermal_needs", "limit_array",
            "tj_limit", "GROUP_CODES"]
 
 # The name `Needs` uses for "a Pd rated at the ambient" (a lead- or case-rated Pd does not give RthJA).
@@ -36,13 +36,17 @@ _GROUP_NAMES = ("pn", "schottky", "zener", "tvs")
 PART_DEFAULTS = {
     "eg_eV": (1.11, 0.69),          # SPEC §3: Si pn junction, Schottky barrier
     "is_temp_exponent": (3.0, 2.0),  # SPEC §3
-    "rs_temp_exponent": (0.0, 0.0),
+    "rs_temp_exponent": (1.5, 1.5),  # SPEC §3: Rs(T) = Rs·(T/T0)^1.5, common practice for bulk silicon
     "if_ref_C": (25.0, 25.0),
     "pd_ref_C": (25.0, 25.0),
     "ifsm_ms": (8.3, 8.3),           # half sine at 60 Hz, the usual IFSM pulse
     "ir_double_K": (10.0, 10.0),     # leakage doubles every 10 K (common practice)
     "ir_t_C": (25.0, 25.0),          # datasheets state IR max at 25 °C unless they say otherwise
 }
+
+RS_TEMP_DEFAULT_NOTE = ("Rs(T) = Rs·(T/T0)^1.5: the part gives no rs_temp_exponent, so the default 1.5 is used "
+                        "(common practice for bulk silicon)")
+"""The check-sheet note of a part whose Rs temperature exponent is the default (SPEC §3)."""
 
 # Fields the checker reads as numbers: every numeric column of the part record.
 NUMERIC_FIELDS = tuple(spec.name for spec in PART_FIELDS if spec.type == "float")

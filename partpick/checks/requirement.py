@@ -72,6 +72,7 @@ DEFAULTS: dict[str, Any] = {
     "rth_ja_K_per_W": None,            # each part's own RthJA
     "inrush_capacitance_F": None,
     "inrush_source_ohm": None,
+    "handover": True,                  # series: the diode blocks straight from its hot, conducting state
     "kinds": None,                     # every kind the role considers
     "packages": None,
     "lifecycle": None,
@@ -136,6 +137,7 @@ _MOUNT_KEYS = {"board": (("copper_area_mm2",), ("copper_area_mm2",)),
                "heatsink": (("rth_sa_K_per_W",), ("rth_cs_K_per_W", "rth_sa_K_per_W"))}
 THERMAL_KEYS = ("mount",) + tuple(_THERMAL_KEY_RULES)
 _TEXT_KEYS = ("name", "role", "policy", "objective")
+_BOOL_KEYS = ("handover",)
 _LIST_KEYS = {"kinds": KINDS, "packages": None, "lifecycle": LIFECYCLES}
 # Keys of earlier versions that now have another name (SPEC §4: every percentage is stated
 # "at most x % of the rating"); a file giving one is bad input naming the new key.
@@ -240,6 +242,7 @@ class Requirement:
     rth_ja_K_per_W: float | None = None
     inrush_capacitance_F: float | None = None
     inrush_source_ohm: float | None = None
+    handover: bool = DEFAULTS["handover"]
     kinds: tuple[str, ...] | None = None
     packages: tuple[str, ...] | None = None
     lifecycle: tuple[str, ...] | None = None
@@ -263,11 +266,12 @@ class Requirement:
 
     @property
     def reverse_voltage(self) -> float:
-        """The reverse voltage the blocking diode sees [V] (SPEC §4)."""
-        base = self.reverse_V if self.reverse_V is not None else self.supply_max_V
-        if self.reverse_transient_V is not None:
-            return max(base, self.reverse_transient_V)
-        return base
+        """The continuous reverse voltage the blocking diode sees [V] (SPEC §4).
+
+        A ``reverse_transient_V`` is a pulse, checked against the peak rating only
+        (the ``reverse_transient`` check): it never enters leakage, reverse power or runaway.
+        """
+        return self.reverse_V if self.reverse_V is not None else self.supply_max_V
 
     def to_dict(self) -> dict:
         """Every key with the defaults filled in (plain JSON types)."""
@@ -477,6 +481,11 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     for key, allowed in _LIST_KEYS.items():
         if key in data:
             values[key] = _text_list(reader, key, data[key], allowed)
+    for key in _BOOL_KEYS:
+        if key in data:
+            if not isinstance(data[key], bool):
+                reader.fail(key, f"{data[key]!r} is not true or false")
+            values[key] = data[key]
 
     for low, high, unit in (("supply_min_V", "supply_max_V", "V"), ("load_min_A", "load_max_A", "A"),
                             ("ambient_min_C", "ambient_max_C", "°C")):

@@ -47,6 +47,7 @@ from operator import itemgetter
 import numpy as np
 
 from partpick import __version__
+from partpick.checks.cautions import result_cautions
 from partpick.checks.partdata import PartArrays
 from partpick.checks.policy import (BUILTIN_POLICIES, GROUPS, LIMIT_DESCRIPTIONS, NO_POLICY_NOTE, Policy,
                                     resolve_limits)
@@ -481,8 +482,7 @@ def run_check(requirement, parts: list[dict], *, policies: dict | None = None, l
                       "listed": len(entries)}
     if reviewer:
         out["reviewer"] = reviewer
-    if role.cautions:
-        out["cautions"] = list(role.cautions)  # the role's own, beside the general ones of the reports
+    out["cautions"] = result_cautions(role.cautions)  # SPEC §7: general, the role's own, the assumptions
     if role.method_notes:
         out["method"] = list(role.method_notes)
     out["subject_passed"] = subject_passed

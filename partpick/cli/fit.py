@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import sys
 
 from partpick.errors import InputError
 from partpick.units import format_quantity, parse_quantity
@@ -58,9 +59,28 @@ def run(args) -> int:
                                 temperature=celsius_to_kelvin(temperature_c),
                                 band_gap=band_gap, temperature_exponent=exponent)
     except FitRefused as exc:
+        if exc.best is not None:  # where the solver got to, and what to change, before the one-line error
+            if args.format == "json":
+                doc = _fit_document(exc.best, points, temperature_c)
+                doc.update(refused=str(exc), advice=exc.advice)
+                print(json.dumps(doc, indent=2))
+            else:
+                print("Fit refused. The best the model could do (reported at 25 °C):")
+                _print_fit(exc.best, points)
+                print(f"  what to change: {exc.advice}")
+            sys.stdout.flush()
         raise InputError(f"fit refused: {exc}") from exc
     if args.format == "json":
-        doc = {
+        print(json.dumps(_fit_document(fit, points, temperature_c), indent=2))
+        return 0
+    print("Forward model fitted to datasheet points (reported at 25 °C)")
+    _print_fit(fit, points)
+    return 0
+
+
+def _fit_document(fit, points, temperature_c) -> dict:
+    """The JSON of a fit (or of the best a refused fit found)."""
+    return {
             "is_A": fit.saturation_current,
             "n": fit.ideality,
             "rs_ohm": fit.series_resistance,
@@ -74,9 +94,9 @@ def run(args) -> int:
                 for (i, v), r in zip(points, fit.residuals_V)
             ],
         }
-        print(json.dumps(doc, indent=2))
-        return 0
-    print("Forward model fitted to datasheet points (reported at 25 °C)")
+
+
+def _print_fit(fit, points) -> None:
     print(f"  Is  = {fit.saturation_current:.4e} A")
     print(f"  n   = {fit.ideality:.4f}")
     rs_note = "" if fit.fitted_series_resistance else "  (assumed: two points)"
@@ -85,4 +105,3 @@ def run(args) -> int:
     print(f"  {'IF':>10}  {'VF':>9}  {'residual':>9}")
     for (i, v), r in zip(points, fit.residuals_V):
         print(f"  {format_quantity(i, 'A'):>10}  {v:>7.4f} V  {float(r) * 1e3:>+6.3f} mV")
-    return 0

@@ -15,6 +15,7 @@ otherwise undo into a library it no longer matches).
 from __future__ import annotations
 
 import time
+import weakref
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Callable, Protocol
@@ -139,6 +140,14 @@ class CheckJob:
         return result, elapsed
 
 
+def _release_undo_stack(stack) -> None:
+    """Empty a finished workbench's undo stack while its commands are still whole (see Workbench)."""
+    try:
+        stack.clear()
+    except RuntimeError:  # its C++ object is already gone (a parent deleted it)
+        pass
+
+
 class Workbench:
     """The window's state without the window: the three models, the undo stack, the prompt.
 
@@ -157,6 +166,11 @@ class Workbench:
         self.library = LibraryModel()
         self.result = ResultModel()
         self.undo_stack = undo_stack if undo_stack is not None else QUndoStack()
+        # The stack and its commands are destroyed in a known order, never by the cyclic collector:
+        # the finalizer holds the stack (so it is never part of a collected cycle) and, once the
+        # workbench is gone, empties it first and then lets it go. Left to the collector, the
+        # stack's destructor ran after it had already freed the commands' wrappers and crashed.
+        weakref.finalize(self, _release_undo_stack, self.undo_stack)
         self.prompt = prompt
         self.recent_libraries: list[str] = []
         self.recent_requirements: list[str] = []
@@ -166,7 +180,10 @@ class Workbench:
         self.library.library_changed.connect(self._library_opened)
         self.requirement.loaded.connect(self.result.forget_selection)
         self.requirement.edited.connect(self._requirement_edited)
-        self._last_requirement_edit = None  # (step, stack index after it): typing on extends it
+        # (field key, stack index after its step): typing on in that field extends the step. Only the
+        # index is kept: the stack owns its commands, and a Python reference to one of them puts it in
+        # the same collectable cycle as the stack, whose destructor then deletes it a second time.
+        self._last_requirement_edit: tuple[str, int] | None = None
         self.library.parts_changed.connect(lambda: self.select_parts(self.selected_parts))
         self.library.parts_changed.connect(self._update_list_choices)
         if library is not None:
@@ -201,12 +218,11 @@ class Workbench:
 
         stack = self.undo_stack
         last = self._last_requirement_edit
-        if last is not None and last[0].key == key and stack.index() == stack.count() == last[1]:
-            last[0].extend(new)  # typing on in the same field: one step
+        if last is not None and last[0] == key and stack.index() == stack.count() == last[1]:
+            stack.command(last[1] - 1).extend(new)  # typing on in the same field: one step
             return
-        step = EditRequirementField(self.requirement, key, old, new)
-        stack.push(step)
-        self._last_requirement_edit = (step, stack.index())
+        stack.push(EditRequirementField(self.requirement, key, old, new))
+        self._last_requirement_edit = (key, stack.index())
 
     def replace_requirement(self, text: str, change: Callable[[], None]) -> None:
         """Replace the whole requirement (new, open) as one undoable step."""

@@ -74,15 +74,17 @@ def _format(spec, value) -> str:
 class FitPreview:
     """The forward model fitted to the VF points, for the editor's plot (or why there is none)."""
 
-    def __init__(self, fit=None, error: str = "", points=(), curve=None) -> None:
+    def __init__(self, fit=None, error: str = "", points=(), curve=None, refused=None) -> None:
         self.fit = fit
         self.error = error
         self.points = list(points)
-        self.curve = curve  # (current [A], voltage [V]) arrays along the fitted model
+        self.curve = curve  # (current [A], voltage [V]) arrays along the fitted (or best refused) model
+        self.refused = refused  # a refused fit: the best the solver found (never used as the part's model)
 
     @property
     def residuals_mV(self) -> list[float]:
-        return [] if self.fit is None else [float(r) * 1e3 for r in self.fit.residuals_V]
+        shown = self.fit if self.fit is not None else self.refused
+        return [] if shown is None else [float(r) * 1e3 for r in shown.residuals_V]
 
 
 class PartEditModel:
@@ -200,7 +202,6 @@ class PartEditModel:
         """Fit Is, n, Rs to the VF points as typed (the physics core's fit), with the fitted curve."""
         from partpick.physics.constants import T0_K
         from partpick.physics.fit import FitRefused, fit_forward_model
-        from partpick.physics.junction import forward_voltage
 
         if "vf_points" in self.parse_errors:
             return FitPreview(error=self.parse_errors["vf_points"])
@@ -215,10 +216,20 @@ class PartEditModel:
         try:
             fit = fit_forward_model(current, voltage, T0_K, band_gap, exponent)
         except FitRefused as exc:
-            return FitPreview(error=f"Fit refused: {exc}", points=points)
+            error = f"Fit refused: {exc}." + (f" What to change: {exc.advice}." if exc.advice else "")
+            if exc.best is None:
+                return FitPreview(error=error, points=points)
+            best = exc.best
+            return FitPreview(error=error, points=points, refused=best, curve=self._curve(current, best))
+        return FitPreview(fit=fit, points=points, curve=self._curve(current, fit))
+
+    @staticmethod
+    def _curve(current, fit):
+        from partpick.physics.constants import T0_K
+        from partpick.physics.junction import forward_voltage
+
         grid = np.geomspace(current.min() / 3, current.max() * 2, 120)
-        curve = (grid, forward_voltage(grid, fit.saturation_current, fit.ideality, fit.series_resistance, T0_K))
-        return FitPreview(fit=fit, points=points, curve=curve)
+        return grid, forward_voltage(grid, fit.saturation_current, fit.ideality, fit.series_resistance, T0_K)
 
     def use_fit(self, preview: FitPreview) -> None:
         """Take the fitted Is, n, Rs as the part's forward model (model source: fitted)."""

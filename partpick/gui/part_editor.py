@@ -218,6 +218,15 @@ class PartEditor(QDialog):
                 f"Is = {fit.saturation_current:.4g} A · n = {fit.ideality:.4g} · Rs = {fit.series_resistance:.4g} Ω"
                 f"\nResiduals [mV]: {residuals} (worst {1e3 * fit.residual_max_V:.2f} mV)"
                 + (f"\n{fit.note}" if fit.note else ""))
+        elif preview.refused is not None:  # refused: the best the model could do, dashed, and why
+            grid_i, grid_v = preview.curve
+            item.plot(grid_v, grid_i, pen=pg.mkPen((203, 24, 29), width=2, style=Qt.PenStyle.DashLine),
+                      name="best model found (refused)")
+            best = preview.refused
+            residuals = ", ".join(f"{r:+.2f}" for r in preview.residuals_mV).replace("-", "−")
+            self.fit_label.setText(
+                f"{preview.error}\nBest found: Is = {best.saturation_current:.4g} A · n = {best.ideality:.4g} · "
+                f"Rs = {best.series_resistance:.4g} Ω\nResiduals [mV]: {residuals}")
         else:
             self.fit_label.setText(preview.error)
         self.use_fit_button.setEnabled(preview.fit is not None)

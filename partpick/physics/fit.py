@@ -27,7 +27,21 @@ _ON_BOUND = 1e-4
 
 
 class FitRefused(ValueError):
-    """The points cannot give a physical model; the message says why."""
+    """The points cannot give a physical model; the message says why.
+
+    Attributes
+    ----------
+    best : ForwardFit or None
+        Where the solver got to (reported at 25 °C, with each point's residual), for a fit refused
+        on its residual or a bound; None where no fit was tried (bad points).
+    advice : str
+        What to change, in words ("" when nothing better is known).
+    """
+
+    def __init__(self, message: str, best: "ForwardFit | None" = None, advice: str = "") -> None:
+        super().__init__(message)
+        self.best = best
+        self.advice = advice
 
 
 @dataclass(frozen=True)
@@ -180,21 +194,55 @@ def fit_forward_model(current, voltage, temperature=T0_K, band_gap=PN_BAND_GAP_E
     rs = float(x[2]) if with_rs else 0.0
     residuals = residual(x)
     worst = float(np.max(np.abs(residuals)))
-    width_n = IDEALITY_BOUNDS[1] - IDEALITY_BOUNDS[0]
-    if n - IDEALITY_BOUNDS[0] < _ON_BOUND * width_n or IDEALITY_BOUNDS[1] - n < _ON_BOUND * width_n:
-        raise FitRefused(
-            f"the fit ends on the ideality bound (n = {n:.4g}, allowed {IDEALITY_BOUNDS[0]:g}–"
-            f"{IDEALITY_BOUNDS[1]:g}): the points do not describe a junction diode"
-        )
-    if with_rs and _RS_MAX_OHM - rs < _ON_BOUND * _RS_MAX_OHM:
-        raise FitRefused(f"the fit ends on the series-resistance bound (Rs = {rs:.4g} Ω)")
-    if worst > MAX_RESIDUAL_V:
-        raise FitRefused(
-            f"the model misses the points by up to {worst * 1e3:.2f} mV (limit {MAX_RESIDUAL_V * 1e3:g} mV)"
-        )
     is_t = float(np.exp(x[0]))
     is_25 = float(saturation_current_at(is_t, T0_K, n, band_gap, temperature_exponent, reference_temperature=T))
     note = "three or more points: Is, n and Rs fitted" if with_rs else "two points: Is and n fitted, Rs = 0 assumed"
     if abs(T - T0_K) > 1e-9:
         note += f"; points at {T - 273.15:g} °C, Is moved to 25 °C with Eg = {band_gap:g} eV, m = {temperature_exponent:g}"
-    return ForwardFit(is_25, n, rs, residuals, worst, with_rs, note)
+    found = ForwardFit(is_25, n, rs, residuals, worst, with_rs, note)
+    width_n = IDEALITY_BOUNDS[1] - IDEALITY_BOUNDS[0]
+    if n - IDEALITY_BOUNDS[0] < _ON_BOUND * width_n or IDEALITY_BOUNDS[1] - n < _ON_BOUND * width_n:
+        raise FitRefused(
+            f"the fit ends on the ideality bound (n = {n:.4g}, allowed {IDEALITY_BOUNDS[0]:g}–"
+            f"{IDEALITY_BOUNDS[1]:g}): the points do not describe a junction diode", found,
+            "check the points' units (A and V) and that they come from one forward curve at one temperature")
+    if with_rs and _RS_MAX_OHM - rs < _ON_BOUND * _RS_MAX_OHM:
+        raise FitRefused(f"the fit ends on the series-resistance bound (Rs = {rs:.4g} Ω)", found,
+                         "check the points' units (A and V)")
+    if worst > MAX_RESIDUAL_V:
+        raise FitRefused(
+            f"the model misses the points by up to {worst * 1e3:.2f} mV (limit {MAX_RESIDUAL_V * 1e3:g} mV)",
+            found, _residual_advice(I, V, T, band_gap, temperature_exponent))
+    return found
+
+
+def _residual_advice(I, V, T, band_gap, temperature_exponent) -> str:
+    """What to change when one Is, n, Rs cannot pass within the limit through every point.
+
+    A real junction's curve bends in ways the three-parameter model does not (at high current
+    the ideality rises towards 2 — high-level injection; at very low current recombination
+    raises it): a wide current range often cannot be met within 5 mV. Refitting without the
+    highest or the lowest point says which end the model cannot follow.
+    """
+    order = np.argsort(I)
+    options = []
+    if I.size >= 3:
+        for label, keep in (("highest", order[:-1]), ("lowest", order[1:])):
+            try:
+                fit = fit_forward_model(I[keep], V[keep], T, band_gap, temperature_exponent)
+            except FitRefused:
+                continue
+            dropped = order[-1] if label == "highest" else order[0]
+            options.append((fit.residual_max_V, label, float(I[dropped]), fit, keep.size))
+    span = f"{I.min():.3g} A to {I.max():.3g} A"
+    text = (f"one Is, n and Rs cannot follow this curve from {span} within "
+            f"{MAX_RESIDUAL_V * 1e3:g} mV (real junctions bend more at the ends)")
+    if options:
+        worst, label, current, fit, kept = min(options, key=lambda o: o[0])
+        met = ("the other three points are met exactly (three points fix Is, n and Rs)" if kept == 3 else
+               f"the model meets the other {kept} points within {worst * 1e3:.2f} mV")
+        text += (f"; without the {label}-current point ({current:.3g} A) {met}, with n = {fit.ideality:.3f}, "
+                 f"Rs = {fit.series_resistance:.3g} Ω: keep the points around the currents the design uses")
+    else:
+        text += "; keep the points around the currents the design uses, or enter Is, n and Rs by hand"
+    return text

@@ -16,6 +16,7 @@ from partpick.physics.junction import ForwardModel
 
 __all__ = [
     "allowed_power",
+    "blocking_state",
     "derated_current",
     "thermal_resistance_from_rating",
     "power_rating_from_thermal_resistance",
@@ -285,3 +286,77 @@ def reverse_thermal_state(reverse_power_at_ambient, doubling_interval, ambient, 
     out = [scalar_or_array(x, reverse_power_at_ambient, doubling_interval, ambient, thermal_resistance)
            for x in (tj, unstable, runaway, gain)]
     return ReverseState(out[0], out[1], bool(out[2]) if np.ndim(out[2]) == 0 else out[2], out[3])
+
+
+def blocking_state(law, reverse_voltage, ambient, thermal_resistance) -> ReverseState:
+    """Equilibria of Tj = Ta + VR·IR(VR, Tj)·RthJA for a `partpick.physics.leakage.LeakageLaw`, vectorised.
+
+    Parameters
+    ----------
+    law : LeakageLaw
+        The parts' leakage against temperature (one or two exponential segments).
+    reverse_voltage : array_like
+        Continuous reverse voltage [V].
+    ambient : array_like
+        Ta [K].
+    thermal_resistance : array_like
+        RthJA [K/W].
+
+    Returns
+    -------
+    ReverseState
+        The stable solution (NaN where none exists: runaway from any start), the
+        unstable one (a junction that starts at or above it runs away; +inf where
+        there is no leakage), and the loop gain RthJA·dPR/dTj at the stable point.
+
+    Notes
+    -----
+    On each segment PR = A·e^(c·(T − Tref)), so with u = Tj − Ta the balance is
+    u = K·e^(c·u), K = RthJA·A·e^(c·(Ta − Tref)), solved in closed form: u = −W(−c·K)/c,
+    principal branch and branch −1 (Lambert W), none where c·K > 1/e. A root counts
+    where it lies on its own segment. The law is convex (the hot segment is the
+    steeper), so there are at most two roots: the lower is stable, the upper unstable.
+    """
+    VR = nonnegative("reverse_voltage", reverse_voltage)
+    Ta = positive("ambient", ambient)
+    Rth = nonnegative("thermal_resistance", thermal_resistance)
+    scale = VR * np.maximum(1.0, VR / law.rated_voltage)
+    hot = law.hot_temperature
+    c1 = np.log(2.0) / law.low_interval
+    c2 = np.log(2.0) / law.high_interval
+    at_hot = law.rated_current * np.exp2((np.where(np.isfinite(hot), hot, law.rated_temperature)
+                                          - law.rated_temperature) / law.low_interval)
+    segments = ((law.rated_current, law.rated_temperature, c1, lambda T: T <= hot),
+                (at_hot, np.where(np.isfinite(hot), hot, law.rated_temperature), c2,
+                 lambda T: np.isfinite(hot) & (T > hot)))
+    roots, rates = [], []
+    for amplitude, reference, c, on_segment in segments:
+        with np.errstate(over="ignore", invalid="ignore"):
+            K = Rth * scale * amplitude * np.exp(c * (Ta - reference))
+        a = c * K
+        solvable = np.isfinite(a) & (a <= np.exp(-1.0))
+        arg = -np.where(solvable, a, 0.0)
+        w0 = np.real(lambertw(arg, 0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            wm1 = np.where(arg < 0, np.real(lambertw(np.where(arg < 0, arg, -0.1), -1)), -np.inf)
+        for w in (w0, wm1):
+            T = Ta - w / c
+            valid = solvable & on_segment(T)
+            roots.append(np.where(valid, T, np.inf))
+            rates.append(np.broadcast_to(c, np.shape(T)))
+    table = np.stack(np.broadcast_arrays(*roots), axis=-1)
+    rate_table = np.stack(np.broadcast_arrays(*rates), axis=-1)
+    order = np.argsort(table, axis=-1)
+    ranked = np.take_along_axis(table, order, axis=-1)
+    stable = ranked[..., 0]
+    unstable = ranked[..., 1]
+    runaway = ~np.isfinite(stable)
+    rate = np.take_along_axis(rate_table, order[..., :1], axis=-1)[..., 0]
+    no_leak = np.broadcast_to(scale * law.rated_current * Rth == 0, stable.shape)
+    stable = np.where(no_leak, np.broadcast_to(Ta, stable.shape), stable)
+    unstable = np.where(no_leak, np.inf, unstable)
+    runaway = runaway & ~no_leak
+    tj = np.where(runaway, np.nan, stable)
+    gain = np.where(runaway, np.nan, np.where(no_leak, 0.0, rate * (tj - Ta)))
+    unstable = np.where(runaway, np.nan, unstable)
+    return ReverseState(tj, unstable, runaway, gain)

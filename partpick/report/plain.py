@@ -9,6 +9,9 @@ import math
 
 from partpick.report.words import (
     CHECK_LABELS,
+    cautions_of,
+    price_text,
+    short_reason,
     KEY_METRICS,
     METRIC_LABELS,
     METRIC_ORDER,
@@ -175,8 +178,7 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
             if first.get("margin_pct") is not None:  # the shortlist compares in %; the sheet adds the unit
                 failing += f" ({_margin_text(first['margin_pct'])})"
             elif first.get("reason"):
-                reason = clean_text(first["reason"])
-                failing += f" ({reason if len(reason) <= 40 else reason[:39] + '…'})"
+                failing += f" ({short_reason(first['reason'])})"
             more = len(c.get("failed_checks") or []) - 1
             if more > 0:
                 failing += f" +{more} more"
@@ -186,7 +188,7 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
                clean_text(c.get("package") or "—"), "pass" if c.get("passed") else "FAIL", failing,
                _margin_text(smallest_margin(c))]
         row += [format_value(metrics.get(k), metric_unit(k)) for k in keys]
-        row += [f"{part['price']:g}" if isinstance(part.get("price"), (int, float)) else "—",
+        row += [price_text(part.get("price")),
                 clean_text(part.get("lifecycle") or "—")]
         rows.append(row)
     return header, rows
@@ -323,7 +325,5 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
         if part is not None else None
     if subject is not None:
         lines += [""] + check_sheet_lines(subject, req.get("role"))
-    lines += ["", "Estimates from datasheet parameters: verify against the manufacturer's datasheet, prototypes "
-                  "and measurements."]
-    lines += [f"CAUTION: {clean_text(c)}" for c in result.get("cautions") or []]
+    lines += [""] + [f"CAUTION: {clean_text(c)}" for c in cautions_of(result)]
     return ("\n".join(lines) + "\n").encode("utf-8")

@@ -13,10 +13,12 @@ import datetime as _dt
 import html
 
 from partpick import __version__
+from partpick.checks.cautions import ASSUMPTION_CAUTIONS
 from partpick.library.fields import FIELD_NAMES
 from partpick.report.plain import delta_text, pass_count_text, shortlist_rows
 from partpick.report.words import (
     CAUTIONS,
+    cautions_of,
     CHECK_LABELS,
     FORMULAS,
     LIMIT_ORDER,
@@ -397,8 +399,9 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         ["Check sheet for", subject["part_number"] if subject else "— (no candidates)"],
     ]
     out.append(_table(None, info))
-    out.append('<p class="caution"><b>Caution.</b> ' + " ".join(e(c) for c in CAUTIONS) + "</p>")
-    for caution in result.get("cautions") or []:  # the role's own (e.g. mains)
+    for caution in cautions_of(result):  # SPEC §7: general and the role's own here, all at the end
+        if caution in ASSUMPTION_CAUTIONS:
+            continue
         out.append(f'<p class="caution"><b>Caution.</b> {e(caution)}</p>')
 
     out.append("<h2>Requirement</h2>")
@@ -484,8 +487,7 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         out.append("<h2>Method and assumptions</h2>" + "".join(f"<p>{e(m)}</p>" for m in result["method"]))
     out.append('<h2 style="page-break-before: always">Formulas and sources</h2>')
     out.append(_table(["What", "Formula", "Source"], [list(f) for f in FORMULAS], widths=[20, 40, 40]))
-    out.append("<h2>Cautions</h2><ul>" + "".join(f"<li>{e(c)}</li>" for c in
-                                               tuple(CAUTIONS) + tuple(result.get("cautions") or ())) + "</ul>")
+    out.append("<h2>Cautions</h2><ul>" + "".join(f"<li>{e(c)}</li>" for c in cautions_of(result)) + "</ul>")
     out.append(f'<p class="small">Made by partpick {e(result.get("partpick_version", __version__))}.</p>')
     out.append("</body></html>")
     return "\n".join(out)

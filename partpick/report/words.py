@@ -5,13 +5,14 @@ from __future__ import annotations
 import math
 import re
 
+from partpick.checks.cautions import ALL_CAUTIONS
 from partpick.checks.curves import corner_label
 from partpick.units import format_engineering
 
 __all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
-           "clean_text", "CAUTIONS", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
-           "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER", "margin_unit", "margin_text",
-           "pct_text"]
+           "clean_text", "CAUTIONS", "cautions_of", "short_reason", "price_text", "FORMULAS", "KEY_METRICS",
+           "RATING_OF_CHECK", "smallest_margin", "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER",
+           "margin_unit", "margin_text", "pct_text"]
 
 ROLE_LABELS = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
 OBJECTIVE_LABELS = {"drop": "Lowest drop", "dissipation": "Lowest dissipation", "headroom": "Most headroom",
@@ -226,9 +227,40 @@ def margin_text(check: dict, role: str | None = None) -> str:
 
 
 def smallest_margin(candidate: dict) -> float | None:
-    """The smallest margin over the candidate's checks [%] (None when no check has one)."""
-    margins = [c["margin_pct"] for c in candidate.get("checks", []) if c.get("margin_pct") is not None]
+    """The smallest margin over the candidate's checks [%].
+
+    None when no check has one, and when a failing check has none (its value could not be
+    computed, e.g. thermal runaway): the smallest margin is then not known, and a passing
+    check's margin must not stand in for it.
+    """
+    checks = candidate.get("checks", [])
+    if any(not c.get("passed") and c.get("margin_pct") is None and c.get("name") != "data_missing"
+           for c in checks):
+        return None
+    margins = [c["margin_pct"] for c in checks if c.get("margin_pct") is not None]
     return min(margins) if margins else None
+
+
+def short_reason(reason: str, limit: int = 40) -> str:
+    """A reason cut to about ``limit`` characters for a table cell: at its first clause, else at a word."""
+    reason = clean_text(reason)
+    if len(reason) <= limit:
+        return reason
+    for mark in (":", ";", ","):
+        head = reason.split(mark, 1)[0].strip()
+        if 8 <= len(head) <= limit + 8:
+            return head + " …"
+    head = reason[:limit].rsplit(" ", 1)[0]
+    return head + " …"
+
+
+def price_text(price) -> str:
+    """A price with two decimals, more only where the library holds them (0.10, 0.095); — unknown."""
+    if not isinstance(price, (int, float)) or isinstance(price, bool) or not math.isfinite(price):
+        return "—"
+    text = f"{price:.4f}".rstrip("0")
+    whole, _, decimals = text.partition(".")
+    return f"{whole}.{decimals.ljust(2, '0')}"
 
 
 def first_failing(candidate: dict) -> dict | None:
@@ -241,15 +273,13 @@ def first_failing(candidate: dict) -> dict | None:
     return failing[0] if failing else None
 
 
-CAUTIONS = (
-    "Results are estimates computed from datasheet parameters and the models below; they are not "
-    "measurements. Verify every choice against the manufacturer's datasheet, with prototypes and with "
-    "measurements on the real circuit before relying on it.",
-    "Diodes in mains rectifiers, high-energy supplies and protection paths can fail violently (rupture, "
-    "fire) or fail short and leave circuits live. Such designs need the review of a qualified person.",
-    "Follow your local electrical codes and safety standards and defer to licensed practice; this report "
-    "does not replace them.",
-)
+CAUTIONS = ALL_CAUTIONS
+"""SPEC §7 — what a report prints when a result carries no ``cautions`` of its own (older JSON)."""
+
+
+def cautions_of(result: dict) -> list[str]:
+    """The cautions a rendering of ``result`` prints: the result's list (general, role, assumptions)."""
+    return list(result.get("cautions") or ALL_CAUTIONS)
 
 # (what, formula, source) — the formulas the checks and curves use.
 FORMULAS = (

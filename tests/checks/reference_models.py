@@ -21,9 +21,9 @@ def saturation_current(is0, T, n, eg, m):
     return is0 * (T / T0) ** (m / n) * math.exp(eg * Q / (n * K_B) * (1 / T0 - 1 / T))
 
 
-def forward_voltage(I, T, is0, n, rs, eg=1.11, m=3.0):
-    """Shockley with series resistance: V = n·VT·ln(1 + I/Is(T)) + I·Rs."""
-    return n * K_B * T / Q * math.log1p(I / saturation_current(is0, T, n, eg, m)) + I * rs
+def forward_voltage(I, T, is0, n, rs, eg=1.11, m=3.0, p=0.0):
+    """Shockley with series resistance: V = n·VT·ln(1 + I/Is(T)) + I·Rs·(T/T0)^p."""
+    return n * K_B * T / Q * math.log1p(I / saturation_current(is0, T, n, eg, m)) + I * rs * (T / T0) ** p
 
 
 def steady_junction(I, Ta, rth, **model):

@@ -71,7 +71,7 @@ def test_checks_metrics_and_corners_of_a_bridge_package():
     rp = checks["repetitive_peak"]
     assert rp["limit"] == pytest.approx(20.0) and rp["value"] == pytest.approx(metrics["diode_peak_A"])
     assert metrics["switch_on_peak_A"] > metrics["diode_peak_A"]
-    assert result["cautions"] and "Mains rectifiers can kill" in result["cautions"][0]
+    assert any("Mains rectifiers can kill" in c for c in result["cautions"])
     assert any("backward Euler" in m for m in result["method"])
     assert "supply_min_V" not in result["requirement"] and result["requirement"]["ac"]["capacitance_tol_pct"] == 20.0
 

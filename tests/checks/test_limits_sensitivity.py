@@ -153,7 +153,7 @@ def test_a_failing_part_says_where_it_would_pass():
         amb = c["metrics"]["max_ambient_C"]
         if amb is not None:
             assert amb < 75.0
-            assert f"passes up to {amb:.1f} °C ambient" in c["operating_limits"]["summary"]
+            assert f"would pass up to {amb:.1f} °C ambient".replace("-", "−") in c["operating_limits"]["summary"]
 
 
 def test_heatsink_limit_is_the_smallest_heatsink_that_holds():

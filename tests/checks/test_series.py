@@ -15,6 +15,15 @@ from reference_models import forward_voltage, leakage, reverse_junction, steady_
 ZERO_C = 273.15
 
 
+def dict_requirement(req, **changes):
+    """The requirement ``req`` with keys changed (the TOML keys, validated again)."""
+    from partpick.checks.requirement import requirement_from_dict
+
+    data = req.to_dict()
+    data.update(changes)
+    return requirement_from_dict({k: v for k, v in data.items() if v is not None}, "test.toml")
+
+
 def _by_name(candidate):
     return {c["name"]: c for c in candidate["checks"]}
 
@@ -34,9 +43,10 @@ def test_series_diode_by_hand_and_by_brentq(silicon_part):
     #   the hotter ambient lowers Vf and so the power).
     # Hand model at 1 A and the worst-drop corner's Tj (25 °C): Ron = n·VT/(I + Is) + Rs = 0.0757 Ω,
     #   Vth0 = Vf − I·Ron = 0.760 − 0.0757 = 0.684 V.
-    # Reverse state at 50 °C: VR = 14 V (supply reversed), IR = 1 µA·2^((50 − 25)/10) = 5.66 µA, PR = 79 µW:
-    #   the junction barely warms (0.004 K at 50 K/W).
-    req = make_requirement()
+    # Reverse state at 50 °C, without hand-over (blocking from switch-on): VR = 14 V (supply reversed),
+    #   IR = 1 µA·2^((50 − 25)/10) = 5.66 µA, PR = 79 µW: the junction barely warms (0.004 K at 50 K/W).
+    #   With hand-over (the default) it blocks from the steady forward Tj at 50 °C and 1 A instead.
+    req = make_requirement(handover=False)
     result = run_check(req, [silicon_part])
     json.dumps(result, allow_nan=False)
     cand = result["candidates"][0]
@@ -61,6 +71,10 @@ def test_series_diode_by_hand_and_by_brentq(silicon_part):
         steady.append((v_steady, vs - v_steady, load * v_steady))
         tj.append(T - ZERO_C)
     t_rev = reverse_junction(50.0 + ZERO_C, 50.0, 14.0, ir=1e-6, ir_vr=100.0, ir_t=25.0 + ZERO_C)
+    # the hand-over start: the hottest steady forward Tj at the hottest ambient (1 A, 50 °C)
+    t_start = steady_junction(1.0, 50.0 + ZERO_C, 50.0, **model)
+    handed = run_check(make_requirement(), [silicon_part])["candidates"][0]["metrics"]
+    assert handed["leakage_A"] == pytest.approx(leakage(t_start, 14.0, 1e-6, 100.0, 25.0 + ZERO_C), rel=1e-6)
     drops = [c[0] for c in cold] + [s[0] for s in steady]
     outputs = [c[1] for c in cold] + [s[1] for s in steady]
     assert m["forward_drop_V"] == pytest.approx(max(drops), abs=1e-7)
@@ -127,10 +141,12 @@ def test_hot_schottky_runs_away_in_the_reverse_state():
     json.dumps(result, allow_nan=False)  # never NaN or Infinity
     cand = result["candidates"][0]
     runaway = _by_name(cand)["reverse_runaway"]
-    assert runaway["value"] is None and not runaway["passed"]
-    assert "thermal runaway in the reverse state" in runaway["reason"]
+    assert not runaway["passed"] and runaway["margin"] < 0 and runaway["margin_pct"] < 0
+    assert runaway["value"] == 85.0 and runaway["unit"] == "°C"  # the ambient asked, against runaway_ambient_C
+    assert "thermal runaway in the reverse state" in runaway["note"]
     assert runaway["corner"]["state"] == "reverse" and runaway["corner"]["ambient_C"] == 85.0
     assert cand["metrics"]["leakage_A"] is None
+    assert runaway["margin"] == pytest.approx(cand["metrics"]["runaway_ambient_C"] - 85.0)
     assert not result["subject_passed"]
 
 
@@ -146,12 +162,21 @@ def test_reverse_runaway_boundary_matches_the_independent_criterion(factor):
     req = make_requirement(supply_min_V=12.0, supply_max_V=20.0, ambient_min_C=25.0, ambient_max_C=25.0,
                            load_min_A=0.01, load_max_A=0.02)
     ref = reverse_junction(25.0 + ZERO_C, rth, vr, ir=ir, ir_vr=vr, ir_t=25.0 + ZERO_C)
-    runaway = _by_name(run_check(req, [part])["candidates"][0])["reverse_runaway"]
+    # Blocking from switch-on (no hand-over): the junction starts at ambient, where IR(Ta) = ir.
+    cand = run_check(dict_requirement(req, handover=False), [part])["candidates"][0]
+    runaway = _by_name(cand)["reverse_runaway"]
+    # The distance to runaway in closed form (the tangency c·RthJA·PR(Ta) = 1/e of the classic
+    # thermal-stability criterion): PR(Ta) = factor·(1/e)/(c·RthJA)·2^((Ta − 25 °C)/d), so the highest
+    # ambient that still settles is 25 °C + d·log2(1/factor), and the largest RthJA is RthJA/factor.
+    assert cand["metrics"]["runaway_ambient_C"] == pytest.approx(25.0 + d * math.log2(1 / factor), abs=1e-6)
+    assert cand["metrics"]["runaway_rth_K_per_W"] == pytest.approx(rth / factor, rel=1e-6)
+    assert runaway["margin"] == pytest.approx(d * math.log2(1 / factor), abs=1e-6)
+    assert runaway["margin_pct"] == pytest.approx(100 * (rth / factor - rth) / (rth / factor), abs=1e-4)
     if factor < 1:
-        assert ref is not None and runaway["value"] == pytest.approx(ref - ZERO_C, abs=1e-6)
-        assert runaway["passed"]
+        assert ref is not None and runaway["passed"]
+        assert "settles at" in runaway["note"]
     else:
-        assert ref is None and runaway["value"] is None and not runaway["passed"]
+        assert ref is None and not runaway["passed"]
 
 
 def test_forward_runaway_is_a_failed_check_not_an_error():
@@ -202,13 +227,13 @@ def test_surge_check_against_the_i2t_rating(silicon_part):
 def test_leakage_above_its_test_voltage_is_scaled_and_says_so(silicon_part):
     # IR 1 µA rated at 10 V; at 14 V it is scaled by 14/10 (SPEC §3), and the check sheet notes it.
     part = dict(silicon_part, ir_vr_V=10.0)
-    cand = run_check(make_requirement(max_leakage_A=1e-3), [part])["candidates"][0]
+    cand = run_check(make_requirement(max_leakage_A=1e-3, handover=False), [part])["candidates"][0]
     leak = _by_name(cand)["leakage"]
     t_rev = reverse_junction(50.0 + ZERO_C, 50.0, 14.0, ir=1e-6, ir_vr=10.0, ir_t=25.0 + ZERO_C)
     assert leak["value"] == pytest.approx(leakage(t_rev, 14.0, 1e-6, 10.0, 25.0 + ZERO_C), rel=1e-6)
     assert "scaled in proportion to voltage" in leak["note"]
-    assert "note" not in _by_name(run_check(make_requirement(max_leakage_A=1e-3), [silicon_part])
-                                  ["candidates"][0])["leakage"]
+    plain = _by_name(run_check(make_requirement(max_leakage_A=1e-3), [silicon_part])["candidates"][0])["leakage"]
+    assert "scaled" not in plain["note"] and "doubling every 10 K (one datasheet point)" in plain["note"]
 
 
 def test_no_allowance_at_an_ambient_above_tj_max(silicon_part):

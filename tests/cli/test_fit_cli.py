@@ -77,3 +77,17 @@ def test_console_entry_point_runs():
                           "--format", "json"], capture_output=True, text=True)
     assert out.returncode == 0, out.stderr
     assert json.loads(out.stdout)["n"] > 1
+
+
+def test_a_refused_fit_shows_the_best_model_and_residuals_then_exits_2(capsys):
+    argv = ["fit", "--point", "10m,0.65", "--point", "100m,0.75", "--point", "1,0.92", "--point", "5,1.15"]
+    assert main(argv) == 2
+    captured = capsys.readouterr()
+    assert captured.err.count("\n") == 1 and "fit refused: the model misses the points" in captured.err
+    assert "best the model could do" in captured.out and "what to change" in captured.out
+    assert captured.out.count(" mV\n") >= 4  # each point's residual
+    assert main(argv + ["--format", "json"]) == 2
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["residual_max_mV"] > 5.0 and len(doc["points"]) == 4
+    assert doc["refused"].startswith("the model misses") and "highest-current point" in doc["advice"]
+    assert max(abs(p["residual_mV"]) for p in doc["points"]) == pytest.approx(doc["residual_max_mV"])

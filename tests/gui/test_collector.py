@@ -49,3 +49,53 @@ def test_worker_threads_never_collect_and_the_ui_thread_does(qtbot):
     finally:
         gc.callbacks.remove(record)
     assert threads and all(threads)
+
+
+
+_CLOSED_WINDOW_COLLECTED = r"""
+import gc, os, sys
+os.environ["QT_QPA_PLATFORM"] = "offscreen"
+from PySide6.QtCore import QCoreApplication, QEvent, QSettings
+from PySide6.QtWidgets import QApplication
+from partpick.gui.commands import Workbench
+from partpick.gui.main_window import MainWindow
+from partpick.library.store import open_library
+
+folder, parts_csv = sys.argv[1], sys.argv[2]
+app = QApplication([])
+library = open_library(os.path.join(folder, "library.sqlite"), create=True)
+library.import_csv(parts_csv)
+for round_ in range(2):
+    bench = Workbench(library)
+    window = MainWindow(bench, settings=QSettings(os.path.join(folder, f"{round_}.ini"),
+                                                  QSettings.Format.IniFormat))
+    window.show()
+    for key, text in (("role", "tvs_clamp"), ("surge.surge_source_ohm", "-"), ("surge.surge_source_ohm", "-2")):
+        bench.requirement.edit_text(key, text)  # undo steps, the last one extended by typing on
+        app.processEvents()
+    bench.requirement.modified = False
+    window.close()
+    window.deleteLater()
+    QCoreApplication.sendPostedEvents(None, QEvent.Type.DeferredDelete)
+    del window, bench
+    gc.collect()  # the workbench, its models and its undo stack are now one collectable cycle
+print("collected")
+"""
+
+
+def test_a_closed_window_and_its_undo_steps_are_collected_without_a_crash(tmp_path):
+    """A closed window's workbench, left in a reference cycle, is collected without a crash.
+
+    Before the fix the collector freed the undo commands' wrappers and then the stack, whose
+    destructor deleted them again: a segmentation fault, seen in CI, reproduced by this script
+    every time. Run in a child process, so a crash fails this test instead of ending the suite.
+    """
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    parts_csv = Path(__file__).resolve().parents[2] / "resources" / "example_library" / "parts.csv"
+    done = subprocess.run([sys.executable, "-c", _CLOSED_WINDOW_COLLECTED, str(tmp_path), str(parts_csv)],
+                          capture_output=True, text=True, timeout=300, cwd=tmp_path)
+    assert done.returncode == 0, f"exit {done.returncode}: {done.stderr[-2000:]}"
+    assert done.stdout.strip().endswith("collected")

@@ -374,3 +374,14 @@ def test_check_table_with_part_is_the_full_check_sheet(tmp_path):
     for check in candidate["checks"]:
         assert CHECK_LABELS.get(check["name"], check["name"]) in text
     assert "Worst-case values:" in text
+
+
+def test_a_refused_fit_shows_the_best_model_and_its_residuals():
+    model = PartEditModel(None)
+    model.set_text("vf_points", "10 mA, 0.65\n100 mA, 0.75\n1 A, 0.92\n5 A, 1.15")
+    preview = model.fit_preview()
+    assert preview.fit is None and preview.refused is not None  # never usable as the part's model
+    assert "misses the points" in preview.error and "What to change" in preview.error
+    assert len(preview.residuals_mV) == 4 and max(abs(r) for r in preview.residuals_mV) > 5.0
+    curve_i, curve_v = preview.curve
+    assert all(v == v and abs(v) < 10 for v in curve_v)  # finite volts along the best model

@@ -80,3 +80,49 @@ def test_points_given_in_any_order():
 def test_fit_refusals(currents, voltages, match):
     with pytest.raises(FitRefused, match=match):
         fit_forward_model(currents, voltages)
+
+
+# A plausible rectifier curve (invented points, read as from a datasheet graph): 100 mV per decade at
+# low current, then the bend of high-level injection. One Is, n, Rs cannot follow all four within 5 mV.
+_RECTIFIER_I = [10e-3, 100e-3, 1.0, 5.0]
+_RECTIFIER_V = [0.65, 0.75, 0.92, 1.15]
+
+
+def test_a_refused_fit_carries_the_best_model_found_and_what_to_change():
+    from scipy.optimize import minimize
+
+    from partpick.physics.junction import forward_voltage
+
+    with pytest.raises(FitRefused, match="misses the points") as refusal:
+        fit_forward_model(_RECTIFIER_I, _RECTIFIER_V)
+    best = refusal.value.best
+    assert best is not None and best.fitted_series_resistance
+    # its residuals are the model's own misses, evaluated here independently of the fit code
+    model_v = forward_voltage(np.array(_RECTIFIER_I), best.saturation_current, best.ideality,
+                              best.series_resistance)
+    assert best.residuals_V == pytest.approx(model_v - np.array(_RECTIFIER_V), abs=1e-9)
+    assert best.residual_max_V == pytest.approx(np.max(np.abs(model_v - _RECTIFIER_V)), abs=1e-12)
+    assert best.residual_max_V > 5e-3
+
+    # Independent check that it is the least-squares optimum: Nelder–Mead (scipy.optimize.minimize,
+    # derivative-free) on the same sum of squares from a different start finds nothing better.
+    def cost(x):
+        log_is, n, rs = x
+        if not 1.0 <= n <= 4.0 or rs < 0:
+            return 1e9
+        return float(np.sum((forward_voltage(np.array(_RECTIFIER_I), np.exp(log_is), n, rs)
+                             - np.array(_RECTIFIER_V)) ** 2))
+
+    other = minimize(cost, [np.log(1e-9), 1.5, 0.05], method="Nelder-Mead",
+                     options={"xatol": 1e-10, "fatol": 1e-16, "maxiter": 20000, "maxfev": 40000})
+    ours = cost([np.log(best.saturation_current), best.ideality, best.series_resistance])
+    assert ours <= other.fun * (1 + 1e-6) + 1e-15
+    # what to change: the end the model cannot follow, and that the other three then fix Is, n, Rs
+    assert "without the highest-current point (5 A)" in refusal.value.advice
+    assert "met exactly" in refusal.value.advice
+
+
+def test_bad_points_are_refused_without_a_best_model():
+    with pytest.raises(FitRefused, match="not monotonic") as refusal:
+        fit_forward_model([1e-3, 1e-2], [0.7, 0.6])
+    assert refusal.value.best is None

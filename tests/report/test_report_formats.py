@@ -89,7 +89,7 @@ def test_table_is_aligned_and_readable(series, parts_by_number):
     assert "Reverse-state runaway" in table[4] and "+1 more" in table[4]
     assert "2 of 3 candidates pass" in text
     assert "587.0 mV" in table[2]
-    assert "verify against the manufacturer's datasheet" in text
+    assert "Verify every choice against the manufacturer's datasheet" in text
 
 
 def test_table_of_a_zener_result(zener, parts_by_number):
@@ -150,7 +150,7 @@ def test_html_report_contents(series_html):
                    "Wright omega", "JESD51", "IEC 60063", "MIL-STD-975M appendix A",
                    # SPEC §7 cautions
                    "estimates", "manufacturer&#x27;s datasheet", "prototypes", "measurements", "fail violently",
-                   "leave circuits live", "local electrical codes", "licensed practice"):
+                   "leave circuits live", "Local electrical codes", "licensed practice", "standard test board"):
         assert needed in text, needed
     # The check sheet is the --part asked for, with every check, its corner and limit source.
     assert "Check sheet: &lt;script&gt;" in text

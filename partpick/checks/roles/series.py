@@ -19,19 +19,22 @@ from __future__ import annotations
 import numpy as np
 
 from partpick.checks.corners import corners_of
-from partpick.checks.partdata import Needs, limit_array, thermal_data, thermal_needs as thermal_needs_of, tj_limit
+from partpick.checks.partdata import (RS_TEMP_DEFAULT_NOTE, Needs, limit_array, thermal_data,
+                                      thermal_needs as thermal_needs_of, tj_limit)
 from partpick.checks.results import PointTable, object_array, worst_case_check, worst_value
 from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.physics.constants import ZERO_CELSIUS_K
 from partpick.physics.junction import ForwardModel
-from partpick.physics.leakage import reverse_current
-from partpick.physics.thermal import derated_current, reverse_thermal_state, self_heated_forward
+from partpick.physics.leakage import leakage_law
+from partpick.physics.thermal import blocking_state, derated_current, self_heated_forward
 
 __all__ = ["SeriesRole", "ROLE", "forward_model_of"]
 
 _MODEL_FIELDS = ("is_A", "n", "rs_ohm")
-_FORWARD_RUNAWAY = ("forward thermal runaway: Tj = Ta + Vf·I·RthJA has no solution at this corner "
-                    "(Rs rising with temperature faster than the junction can shed heat)")
+_FORWARD_RUNAWAY = ("forward thermal runaway: Tj = Ta + Vf·I·RthJA has no steady solution at this corner "
+                    "(far more dissipation than RthJA can shed: the part is grossly overloaded)")
+_FORWARD_RUNAWAY_RS = ("forward thermal runaway: Tj = Ta + Vf·I·RthJA has no steady solution at this corner "
+                       "(Rs rises with temperature: each kelvin adds more dissipation than RthJA sheds)")
 
 
 def forward_model_of(parts) -> tuple[ForwardModel, ForwardModel]:
@@ -105,6 +108,8 @@ class SeriesRole(Role):
         surge_asked = req.inrush_capacitance_F is not None and req.inrush_source_ohm is not None
         if surge_asked:
             needs.require("surge", "ifsm_A")
+        if req.reverse_transient_V is not None:
+            needs.require("reverse_transient", "vrrm_V")
         forward_bad = np.zeros(count, dtype=bool)
         for f in forward_needs:
             forward_bad |= ~np.logical_or.reduce([parts.known(x) for x in f])
@@ -132,25 +137,32 @@ class SeriesRole(Role):
         v_both = np.where(fwd_mask, np.nan, np.concatenate([v_cold, v_steady], axis=1))
         out_both = corners.supply_V[None, :].repeat(2, axis=0).reshape(1, -1) - v_both
         runaway_any = runaway.any(axis=1)
-        forward_reasons = [(forward_bad, None), (runaway_any, _FORWARD_RUNAWAY)]
+        # the cause in words: with Rs constant only sheer overload can leave no steady Tj
+        rs_rises = (parts.value("rs_temp_exponent") > 0) & (parts.value("rs_ohm", 0.0) > 0)
+        forward_reasons = [(forward_bad, None), (runaway_any & rs_rises, _FORWARD_RUNAWAY_RS),
+                           (runaway_any, _FORWARD_RUNAWAY)]
 
         # ---- reverse state --------------------------------------------------------------
-        d = parts.value("ir_double_K")
-        ir_A = parts.value("ir_A", 1e-6)
-        ir_vr = parts.value("ir_vr_V", 1.0)
-        ir_t_K = parts.value("ir_t_C") + ZERO_CELSIUS_K
-        ir_at_ambient = reverse_current(ir_A, ir_vr, ir_t_K, reverse_V, hot_K, d)
-        rev = reverse_thermal_state(reverse_V * ir_at_ambient, d, hot_K, rth)
-        rev_runaway = np.asarray(rev.runaway, dtype=bool).reshape(count)
-        tj_rev_K = np.where(rev_runaway | reverse_bad, np.nan, rev.junction_temperature)
-        leakage = np.where(np.isnan(tj_rev_K), np.nan,
-                           reverse_current(ir_A, ir_vr, ir_t_K, reverse_V, np.where(np.isnan(tj_rev_K), hot_K,
-                                                                                      tj_rev_K), d))
-        reverse_runaway_text = (f"thermal runaway in the reverse state: at {hot_C:g} °C ambient and "
-                                f"{reverse_V:g} V the leakage heats the junction faster than RthJA sheds it "
-                                "(no stable junction temperature)")
-        reverse_reasons = [(reverse_bad, None), (rev_runaway, reverse_runaway_text)]
-
+        # SPEC §3: the continuous reverse voltage at the hottest ambient, from the hand-over start
+        # (the steady forward Tj of the same corner) or, without hand-over, from a cold junction.
+        law = _leakage_law(parts)
+        load_max = ov.load_max(req, count)
+        hot_corners = np.flatnonzero(corners.ambient_C == req.ambient_max_C)
+        if req.handover:
+            start_K = np.max(tj_steady_K[:, hot_corners], axis=1)  # NaN where the forward state runs away
+        else:
+            start_K = np.asarray(hot_K, dtype=float)
+        blocking = blocking_state(law, reverse_V, hot_K, rth)
+        settles, cause = _settling(blocking, start_K, hot_K, tj_max_K, req.handover)
+        tj_rev_K = np.where(reverse_bad | ~np.isfinite(blocking.junction_temperature), np.nan,
+                            blocking.junction_temperature)
+        # leakage peaks right after a hand-over, while the junction is still hot: at max(start, stable)
+        leak_at_K = np.fmax(np.where(np.isfinite(start_K), start_K, np.nan), tj_rev_K)
+        leakage = np.where(settles & ~reverse_bad, law.current(reverse_V, np.where(np.isfinite(leak_at_K),
+                                                                                  leak_at_K, hot_K)), np.nan)
+        runaway_ambient_K, runaway_rth = _runaway_limits(model, law, reverse_V, load_max, hot_K, rth, tj_max_K,
+                                                         req.handover, req.ambient_min_C + ZERO_CELSIUS_K)
+        reverse_reasons = [(reverse_bad, None), (~settles, cause)]
         def with_missing(check, reasons):
             text = needs.reason(check)
             return [(m, text if t is None else t) for m, t in reasons]
@@ -216,31 +228,69 @@ class SeriesRole(Role):
             reasons=with_missing("junction_temp", forward_reasons + reverse_reasons),
             invalid=needs.missing("junction_temp"),
             ambient_C=np.concatenate([ambient_C, hot_K[:, None] - ZERO_CELSIUS_K], axis=1)))
-        checks[-1].note = thermal.notes  # the thermal path's assumptions (SPEC §3a)
+        rs_default = object_array(None, count)
+        rs_default[~parts.known("rs_temp_exponent") & parts.known("rs_ohm") & (parts.value("rs_ohm", 0.0) > 0)] = \
+            RS_TEMP_DEFAULT_NOTE
+        checks[-1].note = _joined(thermal.notes, rs_default)  # the thermal path's assumptions (SPEC §3a)
 
-        # reverse_runaway: a stable reverse-state Tj must exist below Tj max.
-        checks.append(worst_case_check(
-            "reverse_runaway", "°C", tj_rev_K[:, None] - ZERO_CELSIUS_K, tj_max_C, [reverse_id], "max",
-            "part tj_max_C: a stable reverse-state junction temperature below Tj max",
-            reasons=with_missing("reverse_runaway", reverse_reasons), invalid=needs.missing("reverse_runaway")))
+        # reverse_runaway (SPEC §3): the hottest start must settle at ambient_max; the margin is the
+        # distance to runaway, in K of ambient, and as the share of thermal resistance still unused.
+        amb_max_C = hot_K - ZERO_CELSIUS_K
+        runaway_ambient_C = runaway_ambient_K - ZERO_CELSIUS_K
+        check = worst_case_check(
+            "reverse_runaway", "°C", amb_max_C[:, None], runaway_ambient_C, [reverse_id], "max",
+            "runaway_ambient_C: the highest ambient at which the hottest start still settles below Tj max",
+            reasons=with_missing("reverse_runaway", [(reverse_bad, None),
+                                                     (~np.isfinite(runaway_ambient_C), cause)]),
+            invalid=needs.missing("reverse_runaway"))
+        known = np.isfinite(check.margin) & ~needs.missing("reverse_runaway")
+        with np.errstate(divide="ignore", invalid="ignore"):
+            rth_share = 100.0 * (runaway_rth - rth) / runaway_rth
+        # the direct evaluation at ambient_max decides; the bisected limits only measure the distance
+        check.passed = settles & known
+        check.margin = np.where(known, np.where(settles, np.maximum(check.margin, 0.0),
+                                                np.minimum(check.margin, -1e-9)), np.nan)
+        check.margin_pct = np.where(known & np.isfinite(rth_share),
+                                    np.where(settles, np.maximum(rth_share, 0.0), np.minimum(rth_share, -1e-9)),
+                                    np.where(known, np.where(settles, 0.0, -100.0), np.nan))
+        # SPEC §3: leakage in proportion to voltage above the test voltage, held below it; the sheet says so.
+        ir_vr = parts.raw["ir_vr_V"]
+        voltage_note = object_array(None, count)
+        voltage_note[parts.known("ir_vr_V") & (reverse_V > ir_vr)] = (
+            f"leakage scaled in proportion to voltage: {reverse_V:g} V is above the datasheet's IR test voltage")
+        voltage_note[parts.known("ir_vr_V") & (reverse_V < ir_vr)] = (
+            f"leakage held at the datasheet's value below its test voltage ({reverse_V:g} V is below it; "
+            "conservative)")
+        check.note = _joined(_runaway_notes(blocking, start_K, settles, cause, law, req.handover, reverse_bad),
+                             voltage_note)
+        checks.append(check)
 
-        # SPEC §3: above the rated VR the leakage is scaled in proportion to voltage; the sheet says so.
-        scaled = parts.known("ir_vr_V") & (reverse_V > ir_vr)
-        scaled_note = object_array(None, count)
-        scaled_note[scaled] = (f"leakage scaled in proportion to voltage: {reverse_V:g} V is above the "
-                               "datasheet's IR test voltage ir_vr_V")
-        checks[-1].note = scaled_note
+        # reverse_transient (SPEC §3): a non-repetitive pulse against the peak rating only.
+        if req.reverse_transient_V is not None:
+            vrsm = parts.raw["vrsm_V"]
+            peak = np.where(np.isfinite(vrsm), vrsm, vrrm)
+            peak_source = object_array([
+                f"{rev_src[g]}: {v:g} % of " for g, v in enumerate(_group_values(limits, "reverse_pct"))])[groups]
+            peak_source = peak_source + np.where(np.isfinite(vrsm), "VRSM (non-repetitive peak)",
+                                                 "VRRM (the part gives no VRSM)").astype(object)
+            checks.append(worst_case_check(
+                "reverse_transient", "V", np.full((count, 1), req.reverse_transient_V), peak * rev_pct / 100.0,
+                [reverse_id], "max", peak_source,
+                reasons=[(needs.missing("reverse_transient"), needs.reason("reverse_transient"))],
+                invalid=needs.missing("reverse_transient")))
+
         if req.max_leakage_A is not None:
             checks.append(worst_case_check(
                 "leakage", "A", leakage[:, None], np.full(count, req.max_leakage_A), [reverse_id], "max",
                 "requirement max_leakage_A", reasons=with_missing("leakage", reverse_reasons),
                 invalid=needs.missing("leakage")))
-            checks[-1].note = scaled_note
+            checks[-1].note = _joined(_leakage_notes(law, reverse_bad), voltage_note)
 
         if surge_asked:
             # Charging a capacitor C from Vmax through R: ∫i²dt = Vmax²·C/(2R); the
             # rating of a half-sine surge IFSM of length t is IFSM²·t/2.
             i2t = req.supply_max_V**2 * req.inrush_capacitance_F / (2.0 * req.inrush_source_ohm)
+            inrush_peak_A = req.supply_max_V / req.inrush_source_ohm
             ifsm = parts.value("ifsm_A", 1.0)
             rating = ifsm**2 * (parts.value("ifsm_ms") / 1000.0) / 2.0
             surge_pct, surge_src = limit_array(limits, groups, "surge_pct")
@@ -251,6 +301,19 @@ class SeriesRole(Role):
                 "surge", "A²s", np.full((count, 1), i2t), rating * surge_pct / 100.0, [inrush_id], "max",
                 surge_source, reasons=[(needs.missing("surge"), needs.reason("surge"))],
                 invalid=needs.missing("surge")))
+            # surge_peak (SPEC §4): the inrush peak Vmax/R into an empty capacitor against IFSM × the
+            # surge limit. The charging pulse (time constant R·C) is shorter than the part's IFSM pulse,
+            # and no part gives a rating for a shorter one, so the peak is held to IFSM itself.
+            peak_source = object_array([f"{surge_src[g]}: {v:g} % of IFSM" for g, v in
+                                        enumerate(_group_values(limits, "surge_pct"))])[groups]
+            checks.append(worst_case_check(
+                "surge_peak", "A", np.full((count, 1), inrush_peak_A), ifsm * surge_pct / 100.0, [inrush_id],
+                "max", peak_source, reasons=[(needs.missing("surge"), needs.reason("surge"))],
+                invalid=needs.missing("surge")))
+            checks[-1].note = object_array(
+                f"inrush peak = supply_max_V/inrush_source_ohm = {inrush_peak_A:.4g} A, time constant "
+                f"{req.inrush_source_ohm * req.inrush_capacitance_F * 1e3:.3g} ms; held to IFSM (no rating for a "
+                "pulse shorter than the part's surge pulse)", count)
 
         any_missing = needs.any_missing()
         nan = np.full(count, np.nan)
@@ -285,6 +348,9 @@ class SeriesRole(Role):
             "reverse_stress_pct": np.where(vrrm > 0, 100.0 * reverse_V / vrrm, np.nan),
             "leakage_A": leak_metric,
             "reverse_power_W": reverse_V * leak_metric,
+            "runaway_ambient_C": np.where(reverse_bad, np.nan, runaway_ambient_C),
+            **({"inrush_peak_A": np.full(count, inrush_peak_A)} if surge_asked else {}),
+            "runaway_rth_K_per_W": np.where(reverse_bad, np.nan, runaway_rth),
             "vth0_V": vth0,
             "ron_ohm": ron,
         }
@@ -294,6 +360,8 @@ class SeriesRole(Role):
             "junction_temp_C": np.concatenate([steady_ids, [reverse_id]])[tj_col],
             "reverse_voltage_V": np.full(count, reverse_id), "leakage_A": np.full(count, reverse_id),
             "reverse_power_W": np.full(count, reverse_id), "vth0_V": both_ids[drop_col],
+            "runaway_ambient_C": np.full(count, reverse_id), "runaway_rth_K_per_W": np.full(count, reverse_id),
+            **({"inrush_peak_A": np.full(count, inrush_id)} if surge_asked else {}),
             "ron_ohm": both_ids[drop_col],
         }
         internals = {
@@ -309,6 +377,145 @@ class SeriesRole(Role):
             "reverse_tj_C": tj_rev_K - ZERO_CELSIUS_K, "thermal_path_note": thermal.notes,
         }
         return RoleResult(points, checks, metrics, metric_points, internals)
+
+
+def _leakage_law(parts):
+    """The parts' leakage law from the datasheet IR point and, where given, the hot one (SPEC §3)."""
+    return leakage_law(parts.value("ir_A", 1e-6), parts.value("ir_vr_V", 1.0),
+                       parts.value("ir_t_C") + ZERO_CELSIUS_K, parts.value("ir_double_K"),
+                       parts.raw["ir_hot_A"], parts.raw["ir_hot_t_C"] + ZERO_CELSIUS_K)
+
+
+def _settling(state, start_K, ambient_K, tj_max_K, handover: bool):
+    """(settles (P,), cause (P,) object): whether the blocking junction settles from its start, and why not.
+
+    It settles where a stable solution exists below Tj max and the start lies below the unstable one
+    (SPEC §3). The cause names what actually happens.
+    """
+    stable = np.asarray(state.junction_temperature, dtype=float)
+    unstable = np.asarray(state.unstable_temperature, dtype=float)
+    start = np.asarray(start_K, dtype=float)
+    no_start = ~np.isfinite(start)
+    no_stable = ~np.isfinite(stable)
+    too_hot = ~no_stable & (stable >= tj_max_K)
+    past = ~no_stable & ~too_hot & ~no_start & (start >= unstable)
+    settles = ~(no_start | no_stable | too_hot | past)
+    cause = object_array(None, start.size)
+    amb = np.broadcast_to(np.asarray(ambient_K, dtype=float) - ZERO_CELSIUS_K, start.shape)
+    for j in np.flatnonzero(~settles):
+        if no_start[j]:
+            cause[j] = ("no steady forward junction temperature to hand over from (the forward state runs "
+                        "away at the hottest ambient)")
+        elif no_stable[j]:
+            cause[j] = (f"thermal runaway in the reverse state at {amb[j]:g} °C ambient: the leakage power "
+                        "grows with Tj faster than RthJA sheds it at every junction temperature (loop gain "
+                        "above 1), so no junction temperature is stable")
+        elif too_hot[j]:
+            cause[j] = (f"the only stable reverse-state Tj ({stable[j] - ZERO_CELSIUS_K:.1f} °C) is at or above "
+                        f"Tj max ({tj_max_K[j] - ZERO_CELSIUS_K:.1f} °C)")
+        else:
+            where = "the steady forward Tj (hand-over)" if handover else "ambient"
+            cause[j] = (f"thermal runaway after the hand-over: the junction starts at {where}, "
+                        f"{start[j] - ZERO_CELSIUS_K:.1f} °C, above the reverse state's unstable point "
+                        f"{unstable[j] - ZERO_CELSIUS_K:.1f} °C, where leakage heating outruns RthJA; from "
+                        f"a cold start it would settle at {stable[j] - ZERO_CELSIUS_K:.1f} °C")
+    return settles, cause
+
+
+def _runaway_limits(model, law, reverse_V, load_A, ambient_K, rth, tj_max_K, handover: bool, ambient_min_K,
+                    iterations: int = 32):
+    """(runaway_ambient [K], runaway_rth [K/W]) per part, by vectorised bisection (SPEC §3, §3a).
+
+    The highest ambient at which the hottest start still settles (bracket: 150 K below the
+    requirement's ambient minimum up to Tj max), and the largest RthJA that still settles at
+    ``ambient_K`` (bracket 0 … 100 × RthJA in use, bisected in ln RthJA). With hand-over the start
+    is the steady forward Tj at ``load_A`` recomputed at each trial ambient and RthJA. NaN where
+    even the bracket's low end does not settle; the bracket's high end where it still settles there.
+    """
+    P = np.size(rth)
+    load = np.asarray(load_A, dtype=float).reshape(P, 1)
+
+    def settles(ambient, thermal_resistance):
+        ambient = np.asarray(ambient, dtype=float)
+        if handover:
+            fwd = self_heated_forward(model, load, ambient[:, None], thermal_resistance[:, None])
+            start = np.asarray(fwd.junction_temperature, dtype=float).reshape(P)
+        else:
+            start = ambient
+        state = blocking_state(law, reverse_V, ambient, thermal_resistance)
+        return _settling_mask(state, start, tj_max_K)
+
+    lo = np.full(P, max(ambient_min_K - 150.0, 50.0))
+    hi = np.maximum(np.asarray(tj_max_K, dtype=float), lo + 1.0)
+    ok_lo = settles(lo, rth)
+    a, b = lo.copy(), hi.copy()
+    for _ in range(iterations):
+        mid = 0.5 * (a + b)
+        ok = settles(mid, rth)
+        a = np.where(ok, mid, a)
+        b = np.where(ok, b, mid)
+    ambient_limit = np.where(ok_lo, a, np.nan)
+
+    amb = np.broadcast_to(np.asarray(ambient_K, dtype=float), (P,))
+    r_lo = np.maximum(rth, 1e-6) * 1e-3
+    r_hi = np.maximum(rth, 1e-6) * 100.0
+    ok_rlo = settles(amb, r_lo)
+    ok_rhi = settles(amb, r_hi)
+    la, lb = np.log(r_lo), np.log(r_hi)
+    for _ in range(iterations):
+        mid = 0.5 * (la + lb)
+        ok = settles(amb, np.exp(mid))
+        la = np.where(ok, mid, la)
+        lb = np.where(ok, lb, mid)
+    rth_limit = np.where(ok_rhi, r_hi, np.where(ok_rlo, np.exp(la), np.nan))
+    return ambient_limit, rth_limit
+
+
+def _settling_mask(state, start, tj_max_K) -> np.ndarray:
+    stable = np.asarray(state.junction_temperature, dtype=float)
+    unstable = np.asarray(state.unstable_temperature, dtype=float)
+    with np.errstate(invalid="ignore"):
+        return np.isfinite(stable) & (stable < tj_max_K) & np.isfinite(start) & (start < unstable)
+
+
+def _runaway_notes(state, start_K, settles, cause, law, handover: bool, reverse_bad) -> np.ndarray:
+    """What the reverse state does, for the check sheet: start, stable and unstable points, leakage law."""
+    notes = object_array(None, np.size(start_K))
+    stable = np.asarray(state.junction_temperature, dtype=float) - ZERO_CELSIUS_K
+    unstable = np.asarray(state.unstable_temperature, dtype=float) - ZERO_CELSIUS_K
+    start = np.asarray(start_K, dtype=float) - ZERO_CELSIUS_K
+    gain = np.asarray(state.loop_gain, dtype=float)
+    law_notes = _leakage_notes(law, reverse_bad)
+    for j in np.flatnonzero(settles & ~reverse_bad):
+        begin = "hand-over: starts at the steady forward Tj" if handover else "switch-on: starts at ambient"
+        far = "never (no leakage)" if not np.isfinite(unstable[j]) else f"{unstable[j]:.1f} °C"
+        notes[j] = (f"{begin}, {start[j]:.1f} °C; settles at {stable[j]:.1f} °C (loop gain {gain[j]:.2f}); "
+                    f"runs away from a start above {far}; {law_notes[j]}")
+    for j in np.flatnonzero(~settles & ~reverse_bad):
+        notes[j] = f"{cause[j]}; {law_notes[j]}"
+    return notes
+
+
+def _leakage_notes(law, reverse_bad) -> np.ndarray:
+    """Which doubling interval the leakage uses, per part (SPEC §3: the check sheet says which)."""
+    notes = object_array(None, np.size(law.low_interval))
+    for j in np.flatnonzero(~np.asarray(reverse_bad)):
+        if law.two_point[j]:
+            notes[j] = (f"leakage doubling every {law.low_interval[j]:.3g} K from the two datasheet points, "
+                        f"every {law.high_interval[j]:.3g} K above the hot point "
+                        f"({law.hot_temperature[j] - ZERO_CELSIUS_K:g} °C)")
+        else:
+            notes[j] = f"leakage doubling every {law.low_interval[j]:.3g} K (one datasheet point)"
+    return notes
+
+
+def _joined(*notes) -> np.ndarray:
+    """Per part, the notes that are not None, joined with "; "."""
+    out = object_array(None, np.size(notes[0]))
+    for j in range(out.size):
+        texts = [n[j] for n in notes if n[j]]
+        out[j] = "; ".join(texts) if texts else None
+    return out
 
 
 def _group_values(limits: dict, key: str) -> list:
