@@ -245,18 +245,27 @@ def _builtins() -> dict[str, Policy]:
          "tvs": GroupLimits(**{**commercial_pn.to_dict(), "pulse_power_pct": 80.0})},
         builtin=True,
     )
-    # MIL-STD-975M appendix A as transcribed in REFERENCES.md (cancelled 1998):
-    # diodes PIV ≤ 70 %, surge ≤ 50 %, current ≤ 50 %, Tj ≤ 125 °C; Zener
-    # power ≤ 50 %, Tj ≤ 125 °C. Limits the table does not name stay at the rating.
-    hirel_diode = GroupLimits(reverse_pct=70.0, current_pct=50.0, surge_pct=50.0, tj_cap_C=125.0)
+    # MIL-STD-975M appendix A as transcribed in REFERENCES.md (cancelled 1998): diodes PIV ≤ 70 %,
+    # surge ≤ 50 %, current ≤ 50 %, Tj ≤ 125 °C; Zener power ≤ 50 %, Tj ≤ 125 °C; transient
+    # suppressors power ≤ 50 %. SPEC §4 adds, from memory — verify: Tj ≤ Tj max − 40 K as well
+    # (the stricter of the two applies) and resistor power ≤ 50 %. A limit the table does not name
+    # is commercial's, so that no built-in policy is looser than commercial on any limit.
+    hirel_common = dict(tj_cap_C=125.0, tj_margin_K=40.0, resistor_power_pct=50.0)
+    hirel_diode = dict(reverse_pct=70.0, current_pct=50.0, surge_pct=50.0, **hirel_common)
+
+    def stricter(group: str, **limits) -> GroupLimits:
+        return GroupLimits(**{**commercial.groups[group].to_dict(), **limits})
+
     high_reliability = Policy(
         "high_reliability",
-        "Reverse voltage ≤ 70 % of VRRM, forward current ≤ 50 %, surge ≤ 50 %, Tj ≤ 125 °C; Zener power "
-        "≤ 50 %, Tj ≤ 125 °C; TVS pulse power ≤ 50 % — " + HIGH_RELIABILITY_CAUTION,
-        {"pn": hirel_diode, "schottky": hirel_diode,
-         "zener": GroupLimits(power_pct=50.0, tj_cap_C=125.0),
+        "Reverse voltage ≤ 70 % of VRRM, forward current ≤ 50 %, surge ≤ 50 %; Zener power ≤ 50 %; "
+        "TVS pulse power ≤ 50 %; Tj ≤ min(125 °C, Tj max − 40 K) (the 40 K from memory — verify); "
+        "resistor power ≤ 50 % of its class rating (from memory — verify); every other limit as "
+        "commercial — " + HIGH_RELIABILITY_CAUTION,
+        {"pn": stricter("pn", **hirel_diode), "schottky": stricter("schottky", **hirel_diode),
+         "zener": stricter("zener", power_pct=50.0, **hirel_common),
          # transient suppressors: power ≤ 50 % (the same transcribed table), on the pulse rating
-         "tvs": GroupLimits(**{**hirel_diode.to_dict(), "pulse_power_pct": 50.0})},
+         "tvs": stricter("tvs", pulse_power_pct=50.0, **hirel_diode)},
         builtin=True,
     )
     return {p.name: p for p in (ratings_only, commercial, high_reliability)}
@@ -287,8 +296,8 @@ def resolve_limits(policy: Policy, requirement, *, named: bool = True) -> dict[s
     policy : Policy
         The policy the requirement names (or ``ratings_only``).
     requirement : Requirement
-        Its ``reverse_margin_pct``, ``tj_margin_K``, ``current_derating_pct``,
-        ``power_derating_pct`` and ``resistor_power_derating_pct`` override.
+        Its ``reverse_margin_pct``, ``tj_margin_K``, ``current_limit_pct``,
+        ``power_limit_pct`` and ``resistor_power_limit_pct`` override.
     named : bool
         False when the requirement named no policy: the sources then read
         ``default (no derating policy: ratings only)``.
@@ -300,9 +309,9 @@ def resolve_limits(policy: Policy, requirement, *, named: bool = True) -> dict[s
     """
     policy_source = f"policy {policy.name}" if named else f"default ({NO_POLICY_NOTE})"
     overrides = {
-        "current_pct": ("current_derating_pct", requirement.current_derating_pct),
-        "power_pct": ("power_derating_pct", requirement.power_derating_pct),
-        "resistor_power_pct": ("resistor_power_derating_pct", requirement.resistor_power_derating_pct),
+        "current_pct": ("current_limit_pct", requirement.current_limit_pct),
+        "power_pct": ("power_limit_pct", requirement.power_limit_pct),
+        "resistor_power_pct": ("resistor_power_limit_pct", requirement.resistor_power_limit_pct),
         "tj_margin_K": ("tj_margin_K", requirement.tj_margin_K),
     }
     if requirement.reverse_margin_pct is not None:

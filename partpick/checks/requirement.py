@@ -66,9 +66,9 @@ DEFAULTS: dict[str, Any] = {
     "min_output_V": None,
     "max_leakage_A": None,
     "tj_margin_K": None,               # policy's Tj margin applies
-    "current_derating_pct": None,      # policy's limit applies
-    "power_derating_pct": None,
-    "resistor_power_derating_pct": None,
+    "current_limit_pct": None,         # at most this % of the rating; policy's limit applies
+    "power_limit_pct": None,
+    "resistor_power_limit_pct": None,
     "rth_ja_K_per_W": None,            # each part's own RthJA
     "inrush_capacitance_F": None,
     "inrush_source_ohm": None,
@@ -122,9 +122,9 @@ _KEY_RULES: dict[str, tuple] = {
     "min_output_V": (_NUM, 0.0, True, 100e3),
     "max_leakage_A": (_NUM, 0.0, False, 10.0),
     "tj_margin_K": (_NUM, 0.0, True, 200.0),
-    "current_derating_pct": (_NUM, 0.0, False, 100.0),
-    "power_derating_pct": (_NUM, 0.0, False, 100.0),
-    "resistor_power_derating_pct": (_NUM, 0.0, False, 100.0),
+    "current_limit_pct": (_NUM, 0.0, False, 100.0),
+    "power_limit_pct": (_NUM, 0.0, False, 100.0),
+    "resistor_power_limit_pct": (_NUM, 0.0, False, 100.0),
     "rth_ja_K_per_W": (_NUM, 0.0, False, 10e3),
     "inrush_capacitance_F": (_NUM, 0.0, False, 10.0),
     "inrush_source_ohm": (_NUM, 0.0, False, 1e6),
@@ -152,6 +152,21 @@ THERMAL_KEYS = ("mount",) + tuple(_THERMAL_KEY_RULES)
 _TEXT_KEYS = ("name", "role", "policy", "objective")
 _BOOL_KEYS = ("handover",)
 _LIST_KEYS = {"kinds": KINDS, "packages": None, "lifecycle": LIFECYCLES}
+# Keys of earlier versions that now have another name (SPEC §4: every percentage is stated
+# "at most x % of the rating"); a file giving one is bad input naming the new key.
+RENAMED_KEYS: dict[str, str] = {
+    "current_derating_pct": "current_limit_pct",
+    "power_derating_pct": "power_limit_pct",
+    "resistor_power_derating_pct": "resistor_power_limit_pct",
+}
+
+
+def renamed_key_hint(key: str, value) -> str:
+    """The refusal of an earlier version's key name, naming the key to write instead."""
+    return (f"this key was renamed: write {RENAMED_KEYS[key]} = {value!r} instead "
+            "(the same number, read as \"at most this % of the rating\")")
+
+
 TOP_KEYS = tuple(dict.fromkeys(REQUIRED_KEYS + tuple(DEFAULTS) + ("zener", "thermal")))
 ZENER_KEYS = ZENER_REQUIRED_KEYS + tuple(ZENER_DEFAULTS)
 
@@ -255,9 +270,9 @@ class Requirement:
     min_output_V: float | None = None
     max_leakage_A: float | None = None
     tj_margin_K: float | None = None
-    current_derating_pct: float | None = None
-    power_derating_pct: float | None = None
-    resistor_power_derating_pct: float | None = None
+    current_limit_pct: float | None = None
+    power_limit_pct: float | None = None
+    resistor_power_limit_pct: float | None = None
     rth_ja_K_per_W: float | None = None
     inrush_capacitance_F: float | None = None
     inrush_source_ohm: float | None = None
@@ -470,6 +485,8 @@ def requirement_from_dict(data: dict, source: str = "requirement", *, text: str 
     role_tables = _role_tables()
     top_keys = TOP_KEYS + tuple(role_tables)
     for key in data:
+        if key in RENAMED_KEYS:
+            reader.fail(key, renamed_key_hint(key, data[key]))
         if key not in top_keys:
             reader.fail(key, f"unknown key{_suggest(key, top_keys)}")
     for key in ("name", "role"):

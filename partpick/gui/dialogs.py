@@ -111,7 +111,8 @@ class CheckSheetDialog(QDialog):
         self.candidate = candidate
         layout = QVBoxLayout(self)
         self.browser = QTextBrowser(self)
-        self.browser.setHtml(check_sheet_html(candidate, part_record) if candidate is not None
+        role = (result.get("requirement") or {}).get("role")
+        self.browser.setHtml(check_sheet_html(candidate, part_record, role) if candidate is not None
                              else f"<p>{part_number} is not in this result.</p>")
         layout.addWidget(self.browser)
         buttons = QDialogButtonBox(QDialogButtonBox.StandardButton.Close, self)

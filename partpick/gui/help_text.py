@@ -36,9 +36,10 @@ FORMULAS = (
      "scipy.optimize.least_squares; two points fit Is and n with Rs = 0."),
     ("Surge", "I²t = Vmax²·C/(2·R) against IFSM²·t/2", "t = ifsm_ms, default 8.3 ms."),
     ("Preferred values", "E12, E24, E48, E96 resistors; power classes 0.125 … 5 W", "IEC 60063."),
-    ("Derating policy high_reliability", "reverse ≤ 70 %, current ≤ 50 %, Tj ≤ 125 °C, Zener power ≤ 50 %",
+    ("Derating policy high_reliability", "reverse ≤ 70 %, current ≤ 50 %, Tj ≤ min(125 °C, Tj max − 40 K), "
+     "Zener power ≤ 50 %, resistor power ≤ 50 %",
      "In line with MIL-STD-975M appendix A as transcribed: a cancelled public standard, verify before relying "
-     "on it."),
+     "on it (the 40 K and the resistor limit from memory — verify)."),
 )
 
 
@@ -53,7 +54,8 @@ def help_html() -> str:
         f"<ul>{cautions}</ul>"
         "<h2>What partpick computes</h2>"
         "<p>Every candidate is evaluated at every corner (supply × load × ambient, min and max), cold start and "
-        "self-heated, and each check is reported at its worst corner with its margin as % of the limit.</p>"
+        "self-heated, and each check is reported at its worst corner with its margin in its own unit and as a % (of the limit; of the "
+        "allowed rise above ambient for temperatures).</p>"
         f"<table cellspacing='0' cellpadding='4' border='1'><tr><th>Topic</th><th>Formula</th><th>Source</th></tr>"
         f"{rows}</table>"
     )

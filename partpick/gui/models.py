@@ -81,6 +81,13 @@ class ReqField:
     choices: tuple[str, ...] = ()
     minimum: float | None = None
     help: str = ""
+    unit_words: str = ""   # the form's bracket when it says more than the unit ("% of rating")
+
+    @property
+    def form_label(self) -> str:
+        """The form's row label: ``label [unit]`` (or ``[unit_words]``)."""
+        shown = self.unit_words or self.unit
+        return self.label + (f" [{shown}]" if shown else "")
 
     @property
     def toml_key(self) -> str:
@@ -107,12 +114,14 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
              help="Reverse voltage ≤ VRRM/(1 + margin/100); overrides the policy."),
     ReqField("tj_margin_K", "Tj margin", unit="K", group="Margins", minimum=0.0,
              help="Junction temperature margin below Tj max; overrides the policy."),
-    ReqField("current_derating_pct", "Current derating", unit="%", group="Margins", minimum=0.0,
-             help="Forward current ≤ this % of derated IF(AV); overrides the policy."),
-    ReqField("power_derating_pct", "Power derating", unit="%", group="Margins", minimum=0.0,
-             help="Power ≤ this % of the allowed power; overrides the policy."),
-    ReqField("resistor_power_derating_pct", "Resistor derating", unit="%", group="Margins", minimum=0.0,
-             roles=("zener_shunt",), help="Resistor power ≤ this % of its class rating."),
+    ReqField("current_limit_pct", "Current ≤", unit="%", group="Margins", minimum=0.0, unit_words="% of rating",
+             help="Forward current at most this % of the derated IF(AV) (60 means ≤ 60 % of the rating); "
+                  "overrides the policy."),
+    ReqField("power_limit_pct", "Power ≤", unit="%", group="Margins", minimum=0.0, unit_words="% of rating",
+             help="Dissipation at most this % of the allowed power Pallow(Ta); overrides the policy."),
+    ReqField("resistor_power_limit_pct", "Resistor power ≤", unit="%", group="Margins", minimum=0.0,
+             roles=("zener_shunt",), unit_words="% of rating",
+             help="Resistor power at most this % of its class rating; overrides the policy."),
     ReqField("reverse_V", "Reverse voltage", unit="V", group="Limits", roles=("series",),
              help="Reverse voltage in the blocking state (default: supply max)."),
     ReqField("reverse_transient_V", "Reverse transient", unit="V", group="Limits", roles=("series",),
@@ -402,6 +411,10 @@ class RequirementModel:
     def load_dict(self, data: dict, *, source: str = "window") -> None:
         """Replace every field from a requirement dict (the TOML's keys, `[zener]` as a sub-dict)."""
         known = set(FIELDS_BY_KEY) | {"zener"} | ROLE_TABLES
+        from partpick.checks.requirement import RENAMED_KEYS, renamed_key_hint
+
+        for key in sorted(set(data) & set(RENAMED_KEYS)):
+            raise InputError(f"{source}: {key}: {renamed_key_hint(key, data[key])}")
         unknown = sorted(set(data) - known)
         if unknown:
             raise InputError(f"{source}: unknown requirement key(s) {', '.join(unknown)}")

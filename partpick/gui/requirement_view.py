@@ -34,8 +34,7 @@ PLACEHOLDERS = {
     "name": "e.g. 24 V input protection", "supply_min_V": "e.g. 10.8 V", "supply_max_V": "e.g. 13.2 V",
     "load_min_A": "e.g. 10 mA", "load_max_A": "e.g. 1.5 A", "ambient_min_C": "e.g. −40 °C",
     "ambient_max_C": "e.g. 85 °C", "reverse_margin_pct": "policy's (e.g. 25 %)",
-    "tj_margin_K": "policy's (e.g. 25 K)", "current_derating_pct": "policy's (e.g. 70 %)",
-    "power_derating_pct": "policy's (e.g. 60 %)", "resistor_power_derating_pct": "policy's (e.g. 50 %)",
+    "tj_margin_K": "policy's (e.g. 25 K)",
     "current_limit_pct": "policy's (e.g. 70 %)", "power_limit_pct": "policy's (e.g. 60 %)",
     "resistor_power_limit_pct": "policy's (e.g. 50 %)",
     "reverse_V": "supply max (e.g. 30 V)", "reverse_transient_V": "e.g. 60 V", "max_forward_drop_V": "e.g. 600 mV",
@@ -83,8 +82,7 @@ class RequirementView(QScrollArea):
             for spec in (f for f in REQUIREMENT_FIELDS if f.group == group):
                 widget = self._make_editor(spec, box)
                 self.editors[spec.key] = widget
-                label = spec.label + (f" [{spec.unit}]" if spec.unit else "")
-                form.addRow(label, widget)
+                form.addRow(spec.form_label, widget)
                 self.rows[spec.key] = (form, widget)
             outer.addWidget(box)
         outer.addStretch(1)

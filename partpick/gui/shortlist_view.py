@@ -40,7 +40,8 @@ def check_cell_text(check: dict) -> str:
     return text
 
 
-def check_tooltip(check: dict) -> str:
+def check_tooltip(check: dict, role: str | None = None) -> str:
+    """A check's hover text: result, value, limit and its source, margin in its own unit and in %, corner."""
     lines = [f"{humanise(check['name'])}: {'pass' if check['passed'] else 'FAIL'}"]
     unit = check.get("unit") or ""
     if check.get("value") is not None:
@@ -48,8 +49,10 @@ def check_tooltip(check: dict) -> str:
     if check.get("limit") is not None:
         source = f" (from {check['limit_source']})" if check.get("limit_source") else ""
         lines.append(f"Limit: {format_value(check['limit'], unit, 4)}{source}")
-    if check.get("margin_pct") is not None:
-        lines.append(f"Margin: {check['margin_pct']:+.2f} % of the limit".replace("-", "−"))
+    if check.get("margin_pct") is not None or check.get("margin") is not None:
+        from partpick.report.words import margin_text
+
+        lines.append(f"Margin: {margin_text(check, role)}")
     corner = describe_corner(check.get("corner"))
     if corner:
         lines.append(f"Corner: {corner}")
@@ -67,6 +70,7 @@ class ShortlistTableModel(QAbstractTableModel):
         self._by_name: list[dict] = []
         self._texts: dict = {}
         self._fixed: tuple[str, ...] = _FIXED
+        self._role = "series"
         self._sort: tuple[str, Qt.SortOrder] = ("Rank", Qt.SortOrder.AscendingOrder)
         self._extra: tuple[str, ...] = ()  # optional metric columns after the fixed ones (`set_extra_columns`)
         model.changed.connect(self.refresh)
@@ -81,6 +85,7 @@ class ShortlistTableModel(QAbstractTableModel):
     def _load(self) -> None:
         result = self._model.result or {}
         role = (result.get("requirement") or {}).get("role", "series")
+        self._role = role
         self._fixed = _ZENER_FIXED if role == "zener_shunt" else _FIXED
         self._candidates = list(self._model.candidates)
         names: list[str] = []
@@ -230,7 +235,7 @@ class ShortlistTableModel(QAbstractTableModel):
                 text = self._texts[key] = check_cell_text(check)
             return text
         if role == Qt.ItemDataRole.ToolTipRole:
-            return check_tooltip(check)
+            return check_tooltip(check, self._role)
         if role == Qt.ItemDataRole.BackgroundRole and not check["passed"]:
             return _FAIL_BRUSH
         if role == Qt.ItemDataRole.TextAlignmentRole:
@@ -268,7 +273,7 @@ class ShortlistTableModel(QAbstractTableModel):
             if not failed:
                 return "Every check passes at every corner."
             checks = {c["name"]: c for c in candidate["checks"]}
-            return "\n\n".join(check_tooltip(checks[n]) for n in failed if n in checks)
+            return "\n\n".join(check_tooltip(checks[n], self._role) for n in failed if n in checks)
         return None
 
 

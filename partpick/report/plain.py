@@ -20,6 +20,7 @@ from partpick.report.words import (
     corner_text,
     first_failing,
     format_value,
+    margin_text,
     metric_unit,
     smallest_margin,
 )
@@ -113,9 +114,14 @@ def _check_names(candidates: list[dict]) -> list[str]:
     return names
 
 
+# The CSV columns of each check, ``<check>_<field>``, straight from the JSON check.
+_CHECK_FIELDS = ("value", "unit", "limit", "limit_source", "margin", "margin_pct", "passed")
+
+
 def render_csv(result: dict, parts_by_number: dict | None = None) -> bytes:
     """One row per candidate: rank, part, pass/fail, first failing check, every metric, every check's
-    value, margin and pass; price and lifecycle from the library. Text cells are formula-guarded."""
+    value, unit, limit, limit source, margin (in the check's unit; K for °C), margin % and pass; price
+    and lifecycle from the library. Text cells are formula-guarded."""
     candidates = result.get("candidates", [])
     parts_by_number = parts_by_number or {}
     metrics = [k for k in METRIC_ORDER if any(k in (c.get("metrics") or {}) for c in candidates)]
@@ -125,7 +131,7 @@ def render_csv(result: dict, parts_by_number: dict | None = None) -> bytes:
     header = (["rank", "part_number", "kind", "package", "passed", "failed_checks", "first_failing_check",
                "first_failing_margin_pct", "smallest_margin_pct", "price", "lifecycle"]
               + metrics + extra_metrics
-              + [f"{name}_{field}" for name in checks for field in ("value", "unit", "margin_pct", "passed")]
+              + [f"{name}_{field}" for name in checks for field in _CHECK_FIELDS]
               + [f"delta_{k}" for k in deltas])
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\r\n")
@@ -141,7 +147,7 @@ def render_csv(result: dict, parts_by_number: dict | None = None) -> bytes:
         row += [(c.get("metrics") or {}).get(k) for k in metrics + extra_metrics]
         for name in checks:
             check = by_name.get(name) or {}
-            row += [check.get("value"), check.get("unit"), check.get("margin_pct"), check.get("passed")]
+            row += [check.get(field) for field in _CHECK_FIELDS]
         delta = c.get("deltas") or {}
         row += [_delta_cell(delta.get(k)) for k in deltas]
         writer.writerow([_cell(v) for v in row])
@@ -183,7 +189,7 @@ def shortlist_rows(result: dict, parts_by_number: dict | None = None) -> tuple[l
             failing = "—"
         else:
             failing = CHECK_LABELS.get(first.get("name"), clean_text(first.get("name")))
-            if first.get("margin_pct") is not None:
+            if first.get("margin_pct") is not None:  # the shortlist compares in %; the sheet adds the unit
                 failing += f" ({_margin_text(first['margin_pct'])})"
             elif first.get("reason"):
                 failing += f" ({short_reason(first['reason'])})"
@@ -213,7 +219,7 @@ def delta_text(value, key: str) -> str:
     return clean_text(_delta_cell(value))
 
 
-def check_sheet_lines(candidate: dict) -> list[str]:
+def check_sheet_lines(candidate: dict, role: str | None = None) -> list[str]:
     """One part's check sheet as text: every check with its worst value, limit, result and margin,
     worst corner and limit source, then the worst-case metrics (``check --part P --format table``)."""
     verdict = "passes every check" if candidate.get("passed") else \
@@ -228,7 +234,7 @@ def check_sheet_lines(candidate: dict) -> list[str]:
             f"— ({clean_text(check.get('reason') or 'not computable')})"
         rows.append([CHECK_LABELS.get(check.get("name"), clean_text(check.get("name"))), value,
                      format_value(check.get("limit"), unit), "pass" if check.get("passed") else "FAIL",
-                     _margin_text(check.get("margin_pct")), corner_text(check.get("corner")),
+                     margin_text(check, role), corner_text(check.get("corner")),
                      clean_text(check.get("limit_source") or "")])
     lines += _aligned(header, rows, numeric={1, 2, 4})
     notes = [(CHECK_LABELS.get(c.get("name"), clean_text(c.get("name"))), clean_text(c["note"]))
@@ -272,6 +278,30 @@ def limits_lines(candidates: list[dict]) -> list[str]:
     return out
 
 
+def policy_lines(policy: dict) -> list[str]:
+    """The limits in force per kind group, each with where it came from (SPEC §4: every output says so).
+
+    One line per group and source: ``pn, policy commercial: reverse_pct 80 %, …``.
+    """
+    limits = policy.get("limits") or {}
+    out = []
+    for group, entries in limits.items():
+        if not isinstance(entries, dict):
+            continue
+        by_source: dict[str, list[str]] = {}
+        for key, entry in entries.items():
+            if not isinstance(entry, dict) or "source" not in entry:
+                continue
+            value = entry.get("value")
+            text = "none" if value is None else f"{value:g} {entry.get('unit') or ''}".rstrip()
+            by_source.setdefault(clean_text(entry["source"]), []).append(f"{clean_text(key)} {text}")
+        for source, items in by_source.items():
+            out.append(f"  {clean_text(group)}, {source}: " + ", ".join(items))
+    if out:
+        out = ["", "Limits in force (per kind group, with where each came from):"] + out
+    return out
+
+
 def render_table(result: dict, parts_by_number: dict | None = None, *, part: str | None = None) -> bytes:
     """The ranked shortlist as an aligned text table for a terminal."""
     req = result.get("requirement") or {}
@@ -307,11 +337,12 @@ def render_table(result: dict, parts_by_number: dict | None = None, *, part: str
                 items = [f"{k} {delta_text(v, k)}" for k, v in delta.items() if v is not None]
                 lines.append(f"  {clean_text(number)}: " + ", ".join(items))
         lines += limits_lines(result.get("candidates", []))
+        lines += policy_lines(policy)
     else:
         lines.append("No candidates: no part of the kinds this role considers passed the filters.")
     subject = next((c for c in result.get("candidates", []) if c.get("part_number") == part), None) \
         if part is not None else None
     if subject is not None:
-        lines += [""] + check_sheet_lines(subject)
+        lines += [""] + check_sheet_lines(subject, req.get("role"))
     lines += [""] + [f"CAUTION: {clean_text(c)}" for c in cautions_of(result)]
     return ("\n".join(lines) + "\n").encode("utf-8")

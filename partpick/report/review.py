@@ -30,6 +30,7 @@ from partpick.report.words import (
     clean_text,
     corner_text,
     format_value,
+    margin_text,
     metric_unit,
 )
 
@@ -249,7 +250,7 @@ def _policy_rows(policy: dict) -> list[list[str]]:
 _STRESS_CHECKS = ("reverse_voltage", "forward_current", "zener_power", "surge")
 
 
-def _check_sheet(candidate: dict, part_record: dict | None) -> str:
+def _check_sheet(candidate: dict, part_record: dict | None, role: str | None = None) -> str:
     part_record = part_record or {}
     rows = []
     for check in candidate.get("checks", []):
@@ -265,10 +266,9 @@ def _check_sheet(candidate: dict, part_record: dict | None) -> str:
             if name in _STRESS_CHECKS and rating[2] == unit and value is not None and rated:
                 rating_text += f"; stress {100.0 * value / rated:.1f} %"
         passed = check.get("passed")
-        margin = check.get("margin_pct")
-        margin_text = "" if margin is None else f" {margin:+.2f} %".replace("-", "−")
+        margin = margin_text(check, role)
         status = (f'<span class="{"pass" if passed else "fail"}">{"pass" if passed else "FAIL"}</span>'
-                  f"{e(margin_text)}")
+                  + ("" if margin == "—" else f"<br/>{e(margin)}"))
         if value is not None:
             value_text = format_value(value, unit)
         else:
@@ -279,17 +279,17 @@ def _check_sheet(candidate: dict, part_record: dict | None) -> str:
                      e(corner_text(check.get("corner"))), e(check.get("limit_source"))])
     header = ["Check", "Worst value", "Limit", "Result, margin", "Rating; stress ratio", "Worst corner",
               "Limit source"]
-    return _table(header, rows, numeric={1, 2}, raw=True, widths=[17, 12, 10, 12, 17, 18, 14])
+    return _table(header, rows, numeric={1, 2}, raw=True, widths=[16, 11, 9, 16, 15, 18, 15])
 
 
-def check_sheet_html(candidate: dict, part_record: dict | None) -> str:
+def check_sheet_html(candidate: dict, part_record: dict | None, role: str | None = None) -> str:
     """One part's check sheet as an HTML fragment (the report's, for the window's check-sheet view)."""
     verdict = "passes every check" if candidate.get("passed") else \
         "fails: " + ", ".join(CHECK_LABELS.get(n, n) for n in candidate.get("failed_checks") or [])
     return (f"<style>{_STYLE}</style><h2>Check sheet: {e(candidate['part_number'])}</h2>"
             f"<p>Rank {e(candidate.get('rank'))}, {e(candidate.get('kind'))}, package "
             f"{e(candidate.get('package'))}: <b>{e(verdict)}</b>.</p>"
-            + _check_sheet(candidate, part_record) + "<h3>Worst-case values</h3>" + _metrics_table(candidate)
+            + _check_sheet(candidate, part_record, role) + "<h3>Worst-case values</h3>" + _metrics_table(candidate)
             + '<p class="caution"><b>Caution.</b> ' + " ".join(e(c) for c in CAUTIONS) + "</p>")
 
 
@@ -465,7 +465,7 @@ def review_html(result: dict, *, parts_by_number: dict, requirement, reviewer: s
         out.append(f"<h2>Check sheet: {e(subject['part_number'])}</h2>")
         out.append(f"<p>Rank {e(subject.get('rank'))}, {e(subject.get('kind'))}, package "
                    f"{e(subject.get('package'))}: <b>{e(verdict)}</b>.</p>")
-        out.append(_check_sheet(subject, record))
+        out.append(_check_sheet(subject, record, req.get("role")))
         out.append("<h3>Worst-case values</h3>")
         out.append(_metrics_table(subject))
         chart = next((image_src(n, png) for n, _c, png in images if n == SENSITIVITY_IMAGE), None)

@@ -10,8 +10,9 @@ from partpick.checks.curves import corner_label
 from partpick.units import format_engineering
 
 __all__ = ["CHECK_LABELS", "METRIC_ORDER", "METRIC_LABELS", "metric_unit", "format_value", "corner_text",
-           "clean_text", "CAUTIONS", "cautions_of", "short_reason", "price_text", "FORMULAS", "KEY_METRICS", "RATING_OF_CHECK", "smallest_margin",
-           "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER"]
+           "clean_text", "CAUTIONS", "cautions_of", "short_reason", "price_text", "FORMULAS", "KEY_METRICS",
+           "RATING_OF_CHECK", "smallest_margin", "first_failing", "ROLE_LABELS", "OBJECTIVE_LABELS", "LIMIT_ORDER",
+           "margin_unit", "margin_text", "pct_text"]
 
 ROLE_LABELS = {"series": "Series diode", "zener_shunt": "Zener shunt regulator"}
 OBJECTIVE_LABELS = {"drop": "Lowest drop", "dissipation": "Lowest dissipation", "headroom": "Most headroom",
@@ -168,6 +169,70 @@ def corner_text(corner: dict | None) -> str:
     return " · ".join([text] + extra) if extra else text
 
 
+# What a check's margin_pct is a share of, where it is not its limit (SPEC §4 "Margins"). Temperature
+# checks (unit °C) are the share of the allowed rise, limit − ambient; the series role's runaway check
+# is the share of the thermal resistance still unused.
+_TEMPERATURE_BASIS = "of the allowed rise"
+MARGIN_PCT_BASIS = {("series", "reverse_runaway"): "of the thermal resistance unused"}
+
+
+def margin_unit(unit: str) -> str:
+    """The unit of a check's ``margin``: the check's own, K for a temperature in °C."""
+    return "K" if unit == "°C" else unit
+
+
+def pct_text(value: float) -> str:
+    """A margin in %: '41', '2.5', '−100' (two significant figures below 10, whole numbers above)."""
+    return (f"{value:.0f}" if abs(value) >= 10 else f"{value:.1f}").replace("-", "−")
+
+
+def _on_allowed_rise(check: dict) -> bool:
+    """Whether a °C check's margin_pct is the share of limit − ambient (said only where it is true)."""
+    margin, pct, limit = check.get("margin"), check.get("margin_pct"), check.get("limit")
+    ambient = (check.get("corner") or {}).get("ambient_C")
+    if check.get("reason") == "ambient at or above the limit":
+        return True
+    if None in (margin, pct, limit, ambient) or limit - ambient <= 0:
+        return False
+    return math.isclose(pct, 100.0 * margin / (limit - ambient), rel_tol=1e-6, abs_tol=1e-9)
+
+
+def _on_limit(check: dict) -> bool:
+    """Whether a check's margin_pct is the plain share of |limit| (the rule for every non-temperature check)."""
+    margin, pct, limit = check.get("margin"), check.get("margin_pct"), check.get("limit")
+    if None in (margin, pct, limit) or limit == 0:
+        return limit == 0 and pct in (0.0, -100.0)
+    return math.isclose(pct, 100.0 * margin / abs(limit), rel_tol=1e-6, abs_tol=1e-9)
+
+
+def margin_text(check: dict, role: str | None = None) -> str:
+    """A check's margin in its own unit beside its %: '+12.3 K (41 % of the allowed rise)', '+3.20 V (20 %)'.
+
+    The same words in the text table, the HTML/PDF check sheet and the window (SPEC §8); '—' when
+    neither is known; a temperature check without an allowed rise says so.
+    """
+    margin, pct = check.get("margin"), check.get("margin_pct")
+    unit = check.get("unit") or ""
+    if margin is None and pct is None:
+        return "—"
+    if unit == "°C" and _on_allowed_rise(check):
+        basis = _TEMPERATURE_BASIS
+    elif _on_limit(check):
+        basis = ""
+    else:
+        basis = MARGIN_PCT_BASIS.get((role, check.get("name")), "")
+    if pct is not None:
+        share = f"{pct_text(pct)} %" + (f" {basis}" if basis else "")
+        if check.get("reason") == "ambient at or above the limit":
+            share += ": ambient at or above the limit"
+    else:
+        share = None
+    if margin is None or not unit:
+        return share
+    own = ("+" if margin > 0 else "") + format_engineering(margin, margin_unit(unit), 3)
+    return f"{own} ({share})" if share else own
+
+
 def smallest_margin(candidate: dict) -> float | None:
     """The smallest margin over the candidate's checks [%].
 
@@ -286,10 +351,14 @@ FORMULAS = (
      "E12, E24, E48, E96 across decades; classes 0.125, 0.25, 0.5, 1, 2, 3, 5 W",
      "IEC 60063 (preferred number series for resistors); power classes: common practice."),
     ("Margin",
-     "upper limit: 100·(limit − value)/|limit|; lower limit: 100·(value − limit)/|limit|; negative = fails",
-     "partpick's definition."),
+     "margin = limit − value (upper limit) or value − limit (lower limit), in the check's own unit (K for "
+     "temperatures); margin % = 100·margin/budget, budget = |limit|, or limit − ambient for a temperature (the "
+     "share of the allowed rise unused; ≤ 0: fails at −100 %); negative = fails",
+     "partpick's definition (one rule for every check)."),
     ("high_reliability policy",
-     "reverse ≤ 70 % of VRRM, current ≤ 50 %, surge ≤ 50 %, Tj ≤ 125 °C, Zener power ≤ 50 %",
+     "reverse ≤ 70 % of VRRM, current ≤ 50 %, surge ≤ 50 %, Tj ≤ min(125 °C, Tj max − 40 K), Zener power "
+     "≤ 50 %, resistor power ≤ 50 %, TVS pulse power ≤ 50 %; other limits as commercial",
      "In line with MIL-STD-975M appendix A as transcribed — a cancelled public standard; verify before "
-     "relying on it, and load your own organisation's derating policy for real reviews."),
+     "relying on it; the 40 K and the resistor limit from memory — verify. Load your own organisation's "
+     "derating policy for real reviews."),
 )

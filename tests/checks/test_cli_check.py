@@ -96,6 +96,9 @@ def test_subject_is_the_part_or_the_substitutes(library, req_file, capsysbinary)
     ([], "supply_max = 3\n", "line 9: supply_max: unknown key (did you mean 'supply_max_V'?)"),
     ([], 'policy = "nope"\n', "policy 'nope' is neither built in nor in the library"),
     (["--part", "CL-A", "--substitutes-for", "CL-B"], "", "cannot be combined"),
+    # an earlier version's name of a percentage key (SPEC §4): refused with the new key named
+    ([], "current_derating_pct = 70\n", "line 9: current_derating_pct: this key was renamed: write "
+                                         "current_limit_pct = 70 instead"),
 ])
 def test_bad_input_is_exit_2_with_one_line(library, req_file, capsys, args, extra, message):
     assert main(["check", req_file(extra), "--library", library, *args]) == 2
@@ -210,4 +213,27 @@ def test_example_requirements_on_the_example_library(example_library, requiremen
         for check in cand["checks"]:
             assert (check["value"] is None) == ("reason" in check)
             assert check["corner"] is not None or check["name"] == "data_missing" or "reason" in check
+            _holds_the_margin_rule(check, result["requirement"]["role"])
         assert cand["passed"] == (cand["failed_checks"] == [])
+
+
+def _holds_the_margin_rule(check, role):
+    """SPEC §4 "Margins", recomputed from the check's own value, limit and corner (not from the checker)."""
+    value, limit, margin, pct = check["value"], check["limit"], check["margin"], check["margin_pct"]
+    if role == "series" and check["name"] == "reverse_runaway":
+        return  # its own rule (runaway ambient in K, share of RthJA)
+    if check.get("reason") == "ambient at or above the limit":
+        assert check["unit"] == "°C" and pct == -100.0 and not check["passed"]
+        assert check["limit"] <= check["corner"]["ambient_C"]
+        return
+    if value is None or limit is None:
+        assert margin is None
+        return
+    assert abs(margin) == pytest.approx(abs(limit - value), rel=1e-9, abs=1e-12), check
+    assert (margin >= -1e-12) == check["passed"] or check["name"] == "data_missing", check
+    if check["unit"] == "°C":  # the share of the allowed rise, limit − ambient at that corner
+        budget = limit - check["corner"]["ambient_C"]
+    else:
+        budget = abs(limit)
+    expected = 100.0 * margin / budget if budget > 0 else (0.0 if margin >= 0 else -100.0)
+    assert pct == pytest.approx(expected, rel=1e-9, abs=1e-9), check

@@ -4,8 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from partpick.checks.policy import (BUILTIN_POLICIES, GROUPS, Policy, policy_from_toml, policy_to_toml,
-                                    resolve_limits)
+from dataclasses import fields
+
+from partpick.checks.policy import (BUILTIN_POLICIES, GROUPS, GroupLimits, Policy, policy_from_toml,
+                                    policy_to_toml, resolve_limits)
 from partpick.errors import InputError
 
 from checks_builders import make_requirement
@@ -37,6 +39,70 @@ def test_high_reliability_follows_the_transcribed_table():
     assert "own organisation" in h.description
 
 
+def test_high_reliability_junction_and_resistor_limits():
+    # SPEC §4 (fourth revision): Tj ≤ min(125 °C, Tj max − 40 K) and resistor power ≤ 50 % of the class
+    # rating — both "from memory — verify", which the policy's own text must say.
+    h = BUILTIN_POLICIES["high_reliability"]
+    for g in GROUPS:
+        assert h.groups[g].tj_cap_C == 125.0 and h.groups[g].tj_margin_K == 40.0
+        assert h.groups[g].resistor_power_pct == 50.0
+    assert "Tj ≤ min(125 °C, Tj max − 40 K)" in h.description
+    assert h.description.count("from memory — verify") >= 2
+
+
+# Which way each kind of limit tightens: a smaller % of a rating, a lower Tj cap (none = no cap, the
+# loosest), a larger margin below Tj max. A new limit whose name fits none of these fails the test below
+# until its direction is written here.
+def _stricter_or_equal(key, value, reference):
+    if key.endswith("_pct"):
+        return value <= reference
+    if key == "tj_cap_C":
+        return reference is None or (value is not None and value <= reference)
+    if key == "tj_margin_K":
+        return value >= reference
+    raise AssertionError(f"limit {key!r}: say in this test which way it tightens")
+
+
+@pytest.mark.parametrize("name", sorted(set(BUILTIN_POLICIES) - {"ratings_only"}))
+def test_no_builtin_policy_is_looser_than_commercial(name):
+    # SPEC §4: no built-in policy may be looser than commercial on any limit. ratings_only is the
+    # ratings themselves ("no derating policy"), loosest by definition; it is checked the other way round.
+    commercial = BUILTIN_POLICIES["commercial"]
+    looser = [f"{g}.{f.name}: {getattr(BUILTIN_POLICIES[name].groups[g], f.name)!r} against commercial's "
+              f"{getattr(commercial.groups[g], f.name)!r}"
+              for g in GROUPS for f in fields(GroupLimits)
+              if not _stricter_or_equal(f.name, getattr(BUILTIN_POLICIES[name].groups[g], f.name),
+                                        getattr(commercial.groups[g], f.name))]
+    assert not looser, f"{name} is looser than commercial: " + "; ".join(looser)
+
+
+def test_the_strictness_rule_sees_every_limit_and_catches_a_looser_one():
+    # The rule above must know every GroupLimits field, and must fail for a limit loosened by one step.
+    commercial = BUILTIN_POLICIES["commercial"].groups["pn"]
+    for f in fields(GroupLimits):
+        value = getattr(commercial, f.name)
+        loosened = {"tj_cap_C": None, "tj_margin_K": value - 1.0}.get(f.name, value + 1.0)
+        assert _stricter_or_equal(f.name, value, value)
+        assert not _stricter_or_equal(f.name, loosened, value), f.name
+    for g in GROUPS:  # and ratings_only is never stricter than commercial
+        for f in fields(GroupLimits):
+            assert _stricter_or_equal(f.name, getattr(BUILTIN_POLICIES["commercial"].groups[g], f.name),
+                                      getattr(BUILTIN_POLICIES["ratings_only"].groups[g], f.name))
+
+
+def test_percentage_keys_override_with_their_names():
+    # SPEC §4: current_limit_pct, power_limit_pct, resistor_power_limit_pct = "at most x % of the rating".
+    req = make_requirement(policy="commercial", current_limit_pct=60.0, power_limit_pct=55.0,
+                           resistor_power_limit_pct=45.0)
+    limits = resolve_limits(BUILTIN_POLICIES["commercial"], req)
+    for g in GROUPS:
+        assert limits[g]["current_pct"].value == 60.0
+        assert limits[g]["power_pct"].value == 55.0
+        assert limits[g]["resistor_power_pct"].value == 45.0
+        assert limits[g]["power_pct"].source == "requirement power_limit_pct"
+        assert limits[g]["resistor_power_pct"].source == "requirement resistor_power_limit_pct"
+
+
 def test_ratings_only_is_the_ratings():
     r = BUILTIN_POLICIES["ratings_only"]
     for g in GROUPS:
@@ -53,13 +119,13 @@ def test_toml_and_dict_round_trips(name):
 
 
 def test_requirement_keys_override_and_are_named():
-    req = make_requirement(policy="commercial", reverse_margin_pct=25.0, tj_margin_K=40.0, current_derating_pct=70.0)
+    req = make_requirement(policy="commercial", reverse_margin_pct=25.0, tj_margin_K=40.0, current_limit_pct=70.0)
     limits = resolve_limits(BUILTIN_POLICIES["commercial"], req)
     # reverse_margin_pct m → VR ≤ VRRM/(1 + m/100): 25 % margin = 80 % of VRRM (SPEC §4)
     assert limits["pn"]["reverse_pct"].value == pytest.approx(80.0)
     assert limits["pn"]["reverse_pct"].source == "requirement reverse_margin_pct"
     assert limits["pn"]["tj_margin_K"].value == 40.0
-    assert limits["pn"]["current_pct"].source == "requirement current_derating_pct"
+    assert limits["pn"]["current_pct"].source == "requirement current_limit_pct"
     assert limits["pn"]["power_pct"].source == "policy commercial"
     unnamed = resolve_limits(BUILTIN_POLICIES["ratings_only"], make_requirement(), named=False)
     assert unnamed["pn"]["reverse_pct"].source == "default (no derating policy: ratings only)"

@@ -141,17 +141,17 @@ def test_substitutes_with_deltas():
 
 def test_a_library_policy_is_used_and_echoed_with_sources():
     team = Policy.from_dict({"name": "team", "description": "ours", "groups": {"pn": {"current_pct": 50}}})
-    req = make_requirement(policy="team", current_derating_pct=60.0)
+    req = make_requirement(policy="team", current_limit_pct=60.0)
     result = run_check(req, PARTS, policies={"team": team}, library={"location": "lib.sqlite", "content_hash": "ab"})
     assert result["policy"]["name"] == "team"
     limit = result["policy"]["limits"]["pn"]["current_pct"]
     assert limit == {"value": 60.0, "unit": "%", "description": "forward current, % of derated IF(AV)",
-                     "source": "requirement current_derating_pct"}
+                     "source": "requirement current_limit_pct"}
     assert result["policy"]["limits"]["pn"]["reverse_pct"]["source"] == "policy team"
     assert set(result["policy"]["limits"]) == {"pn", "schottky"}
     assert result["library"] == {"location": "lib.sqlite", "content_hash": "ab"}
     check = {c["name"]: c for c in result["candidates"][0]["checks"]}["forward_current"]
-    assert check["limit_source"].startswith("requirement current_derating_pct")
+    assert check["limit_source"].startswith("requirement current_limit_pct")
 
 
 def test_result_has_the_contract_keys_and_plain_json():

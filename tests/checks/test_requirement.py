@@ -87,7 +87,12 @@ def test_toml_round_trip_is_exact(tmp_path):
     (SERIES + 'kinds = ["shotky"]\n', r"kinds: 'shotky' is not one of .*did you mean 'schottky'"),
     (SERIES + 'lifecycle = "active"\n', r"lifecycle: 'active' is not a list of text"),
     (SERIES + "inrush_capacitance_F = 1e-4\n", r"inrush_capacitance_F: is given without inrush_source_ohm"),
-    (SERIES + "current_derating_pct = 120\n", r"current_derating_pct: 120 is out of range"),
+    (SERIES + "current_limit_pct = 120\n", r"current_limit_pct: 120 is out of range"),
+    # the names of earlier versions (SPEC §4): bad input naming the new key
+    (SERIES + "current_derating_pct = 60\n", r"line 9: current_derating_pct: this key was renamed: write current_limit_pct = 60"),
+    (SERIES + "power_derating_pct = 50\n", r"line 9: power_derating_pct: .*write power_limit_pct = 50"),
+    (ZENER.replace("[zener]", "resistor_power_derating_pct = 50\n[zener]"),
+     r"resistor_power_derating_pct: .*write resistor_power_limit_pct = 50"),
     (SERIES + "max_leakage_A = -1e-6\n", r"max_leakage_A: -1e-06 is out of range"),
     (SERIES + "supply_max_V = 14\n", r"not valid TOML: .*line 9"),
     (SERIES + "[zener\n", r"not valid TOML"),

@@ -170,14 +170,16 @@ def test_zener_missing_data_and_policy_limits():
                            zener=dict(target_V=5.6, max_regulation_error_pct=10.0))
     cand = run_check(req, [part])["candidates"][0]
     assert "izk_A" in _by_name(cand)["data_missing"]["reason"]
-    # With Iz min given, Izk is not needed; high_reliability: Zener power ≤ 50 % of Pallow, Tj ≤ 125 °C.
+    # With Iz min given, Izk is not needed; high_reliability: Zener power ≤ 50 % of Pallow,
+    # Tj ≤ min(125 °C, Tj max − 40 K) = min(125, 150 − 40) = 110 °C (SPEC §4), the stricter named.
     req2 = req.with_changes(zener=dict(target_V=5.6, max_regulation_error_pct=10.0, min_zener_current_A=2e-3))
     checks = _by_name(run_check(req2, [part])["candidates"][0])
     assert "data_missing" not in checks
     power = checks["zener_power"]
     pallow = 0.5 * (150 - power["corner"]["ambient_C"]) / 125 if power["corner"]["ambient_C"] > 25 else 0.5
     assert power["limit"] == pytest.approx(0.5 * pallow)
-    assert checks["junction_temp"]["limit"] == 125.0 and "Tj cap 125" in checks["junction_temp"]["limit_source"]
+    assert checks["junction_temp"]["limit"] == 110.0
+    assert checks["junction_temp"]["limit_source"] == "policy high_reliability: Tj max − 40 K"
 
 
 def _wilson_by_hand(k, n):

@@ -121,6 +121,22 @@ def test_checker_reader_error_is_shown_at_the_field_it_names():
     assert model.build_requirement().ambient_max_C == 85.0
 
 
+def test_percentage_fields_read_at_most_x_percent_of_the_rating():
+    # SPEC §4: "Current ≤ [% of rating]"; the key is current_limit_pct, the number the same way round
+    from partpick.gui.models import REQUIREMENT_FIELDS
+
+    labels = {f.key: f.form_label for f in REQUIREMENT_FIELDS}
+    assert labels["current_limit_pct"] == "Current ≤ [% of rating]"
+    assert labels["power_limit_pct"] == "Power ≤ [% of rating]"
+    assert labels["resistor_power_limit_pct"] == "Resistor power ≤ [% of rating]"
+    assert not any(k.endswith("_derating_pct") for k in labels)
+    model = RequirementModel()
+    model.set_text("current_limit_pct", "60")
+    assert model.build_requirement().current_limit_pct == 60.0
+    with pytest.raises(InputError, match="current_derating_pct: this key was renamed: write current_limit_pct"):
+        model.load_dict({"current_derating_pct": 60.0})
+
+
 def test_load_dict_round_trip_and_unknown_key():
     model = RequirementModel()
     model.load_dict({"name": "x", "role": "zener_shunt", "supply_min_V": 9.0, "supply_max_V": 15.0,

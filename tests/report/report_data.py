@@ -37,9 +37,14 @@ ZENER_REQ = {"name": "5 V reference", "role": "zener_shunt", "supply_min_V": 10.
                        "resistor_tolerance_pct": 5.0, "min_zener_current_A": None, "resistor_ohm": None}}
 
 
+_LOWER_LIMITS = ("zener_current_min", "output_min")
+
+
 def _check(name, value, limit, unit, margin, passed, corner, source="policy commercial", reason=None):
+    # "margin" in the check's own unit (SPEC §4): limit − value, value − limit for a lower limit.
+    own = None if value is None or limit is None else (value - limit if name in _LOWER_LIMITS else limit - value)
     out = {"name": name, "value": value, "limit": limit, "unit": unit, "limit_source": source,
-           "margin_pct": margin, "passed": passed, "corner": corner}
+           "margin": own, "margin_pct": margin, "passed": passed, "corner": corner}
     if reason is not None:
         out["reason"] = reason
     return out

@@ -102,7 +102,6 @@ class AcRectifierRole(Role):
         "min_output_V": "use [ac] min_dc_V, the lowest capacitor voltage",
         "inrush_capacitance_F": "the switch-on surge uses [ac] capacitance_F and surge_source_ohm",
         "inrush_source_ohm": "the switch-on surge uses [ac] surge_source_ohm",
-        "resistor_power_derating_pct": "an AC rectifier has no series resistor to size",
         "resistor_power_limit_pct": "an AC rectifier has no series resistor to size",
     }
     table = _AC
@@ -314,12 +313,12 @@ class AcRectifierRole(Role):
             "junction_temp", "°C", np.concatenate([tj_C, rev_tj_C], axis=1), tj_lim,
             np.concatenate([steady_ids, reverse_ids]), "max", tj_src,
             reasons=with_missing("junction_temp", [forward_runaway, rev_runaway_reason]),
-            invalid=needs.missing("junction_temp")))
+            invalid=needs.missing("junction_temp"), ambient_C=np.concatenate([amb_C, amb_C], axis=1)))
         checks.append(worst_case_check(
             "reverse_runaway", "°C", rev_tj_C, tj_max_C, reverse_ids, "max",
             "part tj_max_C: a stable reverse-state junction temperature below Tj max, from the hot forward Tj",
             reasons=with_missing("reverse_runaway", [rev_runaway_reason, forward_runaway]),
-            invalid=needs.missing("reverse_runaway")))
+            invalid=needs.missing("reverse_runaway"), ambient_C=amb_C))
         scaled = parts.known("ir_vr_V") & (piv / parts.value("ir_vr_V", 1.0) > 1.0)
         note = object_array(None, count)
         note[scaled] = "leakage scaled in proportion to voltage above the datasheet's IR test voltage ir_vr_V"

@@ -51,7 +51,6 @@ _NOT_USED = {
     "max_leakage_A": "a coil clamp has no leakage check",
     "inrush_capacitance_F": "a coil clamp has no inrush check: the turn-off current is checked against IFSM",
     "inrush_source_ohm": "a coil clamp has no inrush check: the turn-off current is checked against IFSM",
-    "resistor_power_derating_pct": "a coil clamp has no resistor",
     "resistor_power_limit_pct": "a coil clamp has no resistor",
 }
 
@@ -334,7 +333,8 @@ class InductiveClampRole(Role):
                 invalid=needs.missing("power")))
         checks.append(worst_case_check(
             "junction_temp", "°C", nanify(tj_K - ZERO_CELSIUS_K), tj_lim, ids, "max", tj_src,
-            reasons=with_missing("junction_temp"), invalid=needs.missing("junction_temp")))
+            reasons=with_missing("junction_temp"), invalid=needs.missing("junction_temp"),
+            ambient_C=ambient_K - ZERO_CELSIUS_K))
         tau_note = object_array(None, count)
         tau_note[~parts.known("tau_th_s")] = ("thermal time constant tau_th_s not known: the pulse is taken "
                                               "against the steady RthJA (conservative)")

@@ -226,7 +226,8 @@ class SeriesRole(Role):
         checks.append(worst_case_check(
             "junction_temp", "°C", tj_all_C, tj_lim, np.concatenate([steady_ids, [reverse_id]]), "max", tj_src,
             reasons=with_missing("junction_temp", forward_reasons + reverse_reasons),
-            invalid=needs.missing("junction_temp")))
+            invalid=needs.missing("junction_temp"),
+            ambient_C=np.concatenate([ambient_C, hot_K[:, None] - ZERO_CELSIUS_K], axis=1)))
         rs_default = object_array(None, count)
         rs_default[~parts.known("rs_temp_exponent") & parts.known("rs_ohm") & (parts.value("rs_ohm", 0.0) > 0)] = \
             RS_TEMP_DEFAULT_NOTE

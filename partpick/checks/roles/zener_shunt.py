@@ -258,7 +258,8 @@ class ZenerShuntRole(Role):
             reasons=unsolved_reasons, invalid=unsolved))
         tj_lim, tj_src = tj_limit(limits, groups, tj_max_C)
         checks.append(worst_case_check(
-            "junction_temp", "°C", tj_C, tj_lim, ids, "max", tj_src, reasons=unsolved_reasons, invalid=unsolved))
+            "junction_temp", "°C", tj_C, tj_lim, ids, "max", tj_src, reasons=unsolved_reasons, invalid=unsolved,
+            ambient_C=ambient_K - ZERO_CELSIUS_K))
         checks[-1].note = thermal.notes  # the thermal path's assumptions (SPEC §3a)
         checks.append(worst_case_check(
             "regulation_error", "%", error, np.full(count, zr.max_regulation_error_pct), ids, "max",
