@@ -125,7 +125,12 @@ REQUIREMENT_FIELDS: tuple[ReqField, ...] = (
     ReqField("reverse_V", "Reverse voltage", unit="V", group="Limits", roles=("series",),
              help="Reverse voltage in the blocking state (default: supply max)."),
     ReqField("reverse_transient_V", "Reverse transient", unit="V", group="Limits", roles=("series",),
-             help="A reverse transient, used when above the reverse voltage."),
+             help="Peak of a non-repetitive reverse pulse (µs to ms): checked against VRSM, else VRRM, only; "
+                  "it never heats the junction."),
+    ReqField("handover", "Hand-over start", group="Limits", roles=("series",), kind="choice",
+             choices=("true", "false"),
+             help="true (default): the diode blocks straight from its hot, conducting state (OR-ing, steering); "
+                  "false: it only ever blocks from switch-on (pure reverse-polarity protection)."),
     ReqField("max_forward_drop_V", "Max forward drop", unit="V", group="Limits", roles=("series",),
              help="Largest acceptable forward drop."),
     ReqField("min_output_V", "Min output", unit="V", group="Limits", roles=("series",),

@@ -288,7 +288,7 @@ def reverse_thermal_state(reverse_power_at_ambient, doubling_interval, ambient, 
     return ReverseState(out[0], out[1], bool(out[2]) if np.ndim(out[2]) == 0 else out[2], out[3])
 
 
-def blocking_state(law, reverse_voltage, ambient, thermal_resistance) -> ReverseState:
+def blocking_state(law, reverse_voltage, ambient, thermal_resistance, power_per_ampere=None) -> ReverseState:
     """Equilibria of Tj = Ta + VR·IR(VR, Tj)·RthJA for a `partpick.physics.leakage.LeakageLaw`, vectorised.
 
     Parameters
@@ -301,6 +301,9 @@ def blocking_state(law, reverse_voltage, ambient, thermal_resistance) -> Reverse
         Ta [K].
     thermal_resistance : array_like
         RthJA [K/W].
+    power_per_ampere : array_like, optional
+        PR per ampere of the law's leakage at its test voltage [W/A], for a reverse voltage that
+        varies (an AC rectifier's cycle average ⟨vr·max(1, vr/VR0)⟩); replaces VR·max(1, VR/VR0).
 
     Returns
     -------
@@ -321,6 +324,8 @@ def blocking_state(law, reverse_voltage, ambient, thermal_resistance) -> Reverse
     Ta = positive("ambient", ambient)
     Rth = nonnegative("thermal_resistance", thermal_resistance)
     scale = VR * np.maximum(1.0, VR / law.rated_voltage)
+    if power_per_ampere is not None:
+        scale = nonnegative("power_per_ampere", power_per_ampere)
     hot = law.hot_temperature
     c1 = np.log(2.0) / law.low_interval
     c2 = np.log(2.0) / law.high_interval

@@ -35,10 +35,10 @@ from partpick.checks.role_table import RoleTable, TableKey
 from partpick.checks.roles.base import Overrides, Role, RoleResult
 from partpick.checks.roles.series import forward_model_of
 from partpick.physics.constants import ZERO_CELSIUS_K
-from partpick.physics.leakage import reverse_current
+from partpick.physics.leakage import leakage_law
 from partpick.physics.rectifier import (diodes_in_circuit, peak_inverse_voltage, rectifier_operating_point,
                                         switch_on_surge)
-from partpick.physics.thermal import allowed_power, derated_current, reverse_thermal_state
+from partpick.physics.thermal import allowed_power, blocking_state, derated_current
 
 __all__ = ["AcRectifierRole", "ROLE", "ac_corners", "MAINS_CAUTION"]
 
@@ -423,20 +423,21 @@ def _reverse(parts, cyc, rth, per_package, piv):
     2^(ΔTj/d); starting at the forward Tj, the package (all its diodes) balances
     Tj = Tj,fwd + N·RthJA·PR(Tj) (`reverse_thermal_state`), or runs away.
     """
-    d = parts.value("ir_double_K")[:, None]
-    ir_t_K = (parts.value("ir_t_C") + ZERO_CELSIUS_K)[:, None]
-    ir_A = parts.value("ir_A", 1e-6)[:, None]
-    ir_vr = parts.value("ir_vr_V", 1.0)[:, None]
+    col = lambda a: np.asarray(a, dtype=float)[:, None]  # noqa: E731 - parts along axis 0
+    ir_vr = col(parts.value("ir_vr_V", 1.0))
+    # the leakage law of SPEC §3: one datasheet point, or two (the hot one sets the doubling interval)
+    law = leakage_law(col(parts.value("ir_A", 1e-6)), ir_vr, col(parts.value("ir_t_C") + ZERO_CELSIUS_K),
+                      col(parts.value("ir_double_K")), col(parts.raw["ir_hot_A"]),
+                      col(parts.raw["ir_hot_t_C"] + ZERO_CELSIUS_K))
     tj_fwd = cyc.junction_temperature
-    ir_at = lambda T: reverse_current(ir_A, ir_vr, ir_t_K, ir_vr, T, d)  # noqa: E731 - IR at its test voltage
+    ir_at = lambda T: law.current(ir_vr, T)  # noqa: E731 - IR at its test voltage
     moment = np.nan_to_num(cyc.cycle.reverse_moment)  # no steady state: masked by the caller
-    p_start = ir_at(tj_fwd) * moment
-    state = reverse_thermal_state(p_start, d, tj_fwd, rth[:, None] * per_package[:, None])
+    state = blocking_state(law, 0.0, tj_fwd, rth[:, None] * per_package[:, None], power_per_ampere=moment)
     runaway = np.asarray(state.runaway, dtype=bool)
     tj = np.where(runaway, tj_fwd, state.junction_temperature)
     return {"tj_K": tj, "runaway": runaway,
             "power": ir_at(tj) * moment,
-            "leakage": reverse_current(ir_A, ir_vr, ir_t_K, piv, tj, d)}
+            "leakage": law.current(piv, tj)}
 
 
 def _switch_on(req, model, parts, surge_R, ambients_C, capacitance):
