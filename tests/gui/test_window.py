@@ -65,6 +65,7 @@ def fill_series_24V(qtbot, window):
                       ("load_max_A", "2 A"), ("ambient_min_C", "-40"), ("ambient_max_C", "85 °C"),
                       ("min_output_V", "16.5 V")):
         type_into(qtbot, window, key, text)
+    choose(qtbot, window, "handover", "false")  # a reversed connection blocks from switch-on
 
 
 # -- tests --------------------------------------------------------------------------------------------
