@@ -30,6 +30,8 @@ CHECK_LABELS = {
     "reverse_runaway": "Reverse-state runaway",
     "leakage": "Leakage",
     "surge": "Surge I²t",
+    "surge_peak": "Surge peak",
+    "reverse_transient": "Reverse transient",
     "zener_current_min": "Minimum Zener current",
     "zener_power": "Zener power",
     "regulation_error": "Regulation error",
@@ -40,7 +42,8 @@ CHECK_LABELS = {
 # SPEC §5 metric keys in their order.
 METRIC_ORDER = (
     "forward_drop_V", "output_min_V", "output_max_V", "dissipation_W", "junction_temp_C", "reverse_voltage_V",
-    "reverse_headroom_V", "reverse_stress_pct", "leakage_A", "reverse_power_W", "vth0_V", "ron_ohm",
+    "reverse_headroom_V", "reverse_stress_pct", "leakage_A", "reverse_power_W", "runaway_ambient_C",
+    "runaway_rth_K_per_W", "inrush_peak_A", "vth0_V", "ron_ohm",
     "series_resistor_ohm", "resistor_power_W", "resistor_power_class_W", "zener_current_min_A",
     "zener_current_max_A", "zener_power_W", "regulation_error_pct", "line_regulation_mV_per_V",
     "load_regulation_mV_per_mA", "line_regulation_worst_mV_per_V", "load_regulation_worst_mV_per_mA",
@@ -50,7 +53,8 @@ METRIC_LABELS = {
     "forward_drop_V": "Forward drop", "output_min_V": "Output min", "output_max_V": "Output max",
     "dissipation_W": "Dissipation", "junction_temp_C": "Tj", "reverse_voltage_V": "Reverse voltage",
     "reverse_headroom_V": "Reverse headroom", "reverse_stress_pct": "Reverse stress", "leakage_A": "Leakage",
-    "reverse_power_W": "Reverse power", "vth0_V": "Hand model Vth0", "ron_ohm": "Hand model Ron",
+    "reverse_power_W": "Reverse power", "runaway_ambient_C": "Runaway ambient",
+    "runaway_rth_K_per_W": "Runaway RthJA", "inrush_peak_A": "Inrush peak", "vth0_V": "Hand model Vth0", "ron_ohm": "Hand model Ron",
     "series_resistor_ohm": "Series resistor", "resistor_power_W": "Resistor power",
     "resistor_power_class_W": "Resistor class", "zener_current_min_A": "Iz min", "zener_current_max_A": "Iz max",
     "zener_power_W": "Zener power", "regulation_error_pct": "Regulation error",
