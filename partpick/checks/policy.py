@@ -11,7 +11,7 @@ the limits of SPEC §4 as fractions of the ratings, written in per cent:
 ``tj_cap_C``                  Tj ≤ this [°C] (none: no cap)
 ``tj_margin_K``               Tj ≤ Tj max − this [K]; the stricter of cap and margin applies
 ``resistor_power_pct``        resistor power ≤ this % of its class rating
-``surge_pct``                 inrush I²t ≤ this % of the IFSM I²t rating
+``surge_pct``                 surge peak ≤ this % of IFSM (so I²t ≤ its square × the IFSM I²t rating)
 ``pulse_power_pct``           TVS pulse power ≤ this % of the moved, derated Ppp rating
 ============================  ==================================================
 
@@ -66,7 +66,7 @@ LIMIT_DESCRIPTIONS = {
     "tj_cap_C": "junction temperature cap [°C]",
     "tj_margin_K": "junction temperature margin below Tj max [K]",
     "resistor_power_pct": "resistor power, % of its class rating",
-    "surge_pct": "inrush I²t, % of the IFSM I²t rating",
+    "surge_pct": "surge peak, % of IFSM (I²t then ≤ its square × the IFSM²·t/2 rating)",
     "pulse_power_pct": "TVS pulse power, % of the Ppp rating moved to the waveform and derated",
 }
 _NAME = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.\- ]{0,63}$")

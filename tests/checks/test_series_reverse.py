@@ -198,3 +198,12 @@ def test_an_overloaded_diode_with_constant_rs_is_not_said_to_run_away_because_rs
                      ir_vr_V=75.0)
     tj = _checks(run_check(_oring(), [part])["candidates"][0])["junction_temp"]
     assert tj["value"] is None and "grossly overloaded" in tj["reason"] and "Rs rises" not in tj["reason"]
+
+
+def test_high_reliability_surge_limit_is_on_the_peak_so_i2t_takes_its_square():
+    # SPEC §4 policies: high_reliability surge ≤ 50 % on the peak current, so I²t ≤ 0.5² × IFSM²·t/2.
+    # By hand: IFSM 80 A, 8.3 ms: rating 80²·0.0083/2 = 26.56 A²s → I²t limit 6.64 A²s, peak limit 40 A.
+    req = _oring(policy="high_reliability", inrush_capacitance_F=2e-3, inrush_source_ohm=1.0)
+    checks = _checks(run_check(req, [_schottky()])["candidates"][0])
+    assert checks["surge"]["limit"] == pytest.approx(0.25 * 80.0**2 * 0.0083 / 2.0, rel=1e-9)
+    assert checks["surge_peak"]["limit"] == pytest.approx(40.0) and checks["surge_peak"]["value"] == 13.0

@@ -294,11 +294,12 @@ class SeriesRole(Role):
             ifsm = parts.value("ifsm_A", 1.0)
             rating = ifsm**2 * (parts.value("ifsm_ms") / 1000.0) / 2.0
             surge_pct, surge_src = limit_array(limits, groups, "surge_pct")
-            surge_source = object_array([f"{surge_src[g]}: {v:g} % of IFSM²·t/2" for g, v in
+            # SPEC §4: the surge limit is on the peak current, so the I²t limit is its square
+            surge_source = object_array([f"{surge_src[g]}: ({v:g} % of IFSM)² · IFSM²·t/2" for g, v in
                                          enumerate(_group_values(limits, "surge_pct"))])[groups]
             inrush_id = int(np.flatnonzero((corners.supply_V == req.supply_max_V))[0])  # a cold start at Vmax
             checks.append(worst_case_check(
-                "surge", "A²s", np.full((count, 1), i2t), rating * surge_pct / 100.0, [inrush_id], "max",
+                "surge", "A²s", np.full((count, 1), i2t), rating * (surge_pct / 100.0) ** 2, [inrush_id], "max",
                 surge_source, reasons=[(needs.missing("surge"), needs.reason("surge"))],
                 invalid=needs.missing("surge")))
             # surge_peak (SPEC §4): the inrush peak Vmax/R into an empty capacitor against IFSM × the
