@@ -5,10 +5,14 @@ SPEC §4. The diode either conducts or blocks, never both at once:
 - forward state at each of the 8 corners, at switch-on (Tj = Ta, ``cold_start``)
   and self-heated (``steady``, Tj = Ta + Vf·I·RthJA solved by Newton in
   `partpick.physics.thermal.self_heated_forward`);
-- reverse state at the hottest ambient (``reverse``): the supply reversed, or
-  ``reverse_V`` / ``reverse_transient_V``; leakage from the datasheet IR,
-  doubling every ``ir_double_K``, heats the junction (runaway by Lambert W in
-  `partpick.physics.thermal.reverse_thermal_state`).
+- reverse state at the hottest ambient (``reverse``): the continuous reverse
+  voltage (``reverse_V``, default the supply reversed); leakage from the
+  datasheet IR point (and the hot one, `partpick.physics.leakage.leakage_law`)
+  heats the junction from its start — the steady forward Tj with ``handover``
+  (default), else ambient — and the equilibria come from
+  `partpick.physics.thermal.blocking_state`; the distance to runaway is bisected
+  in ambient and RthJA. A ``reverse_transient_V`` pulse is its own check against
+  VRSM/VRRM and never heats the junction.
 
 Points: columns 0…C−1 are the cold-start corners, C…2C−1 the steady ones,
 2C the reverse state (supply_V there is the reverse voltage, load_A is 0).
