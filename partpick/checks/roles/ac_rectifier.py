@@ -421,7 +421,7 @@ def _reverse(parts, cyc, rth, per_package, piv):
 
     The cycle-average reverse power PR(Tj) = IR(ir_vr, Tj)·⟨vr·max(1, vr/ir_vr)⟩ grows as
     2^(ΔTj/d); starting at the forward Tj, the package (all its diodes) balances
-    Tj = Tj,fwd + N·RthJA·PR(Tj) (`reverse_thermal_state`), or runs away.
+    Tj = Tj,fwd + N·RthJA·PR(Tj) (`blocking_state`), or runs away.
     """
     col = lambda a: np.asarray(a, dtype=float)[:, None]  # noqa: E731 - parts along axis 0
     ir_vr = col(parts.value("ir_vr_V", 1.0))

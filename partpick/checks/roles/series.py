@@ -403,8 +403,7 @@ def _settling(state, start_K, ambient_K, tj_max_K, handover: bool):
     no_start = ~np.isfinite(start)
     no_stable = ~np.isfinite(stable)
     too_hot = ~no_stable & (stable >= tj_max_K)
-    past = ~no_stable & ~too_hot & ~no_start & (start >= unstable)
-    settles = ~(no_start | no_stable | too_hot | past)
+    settles = _settling_mask(state, start, tj_max_K)  # the rule, stated once; the masks below say why not
     cause = object_array(None, start.size)
     amb = np.broadcast_to(np.asarray(ambient_K, dtype=float) - ZERO_CELSIUS_K, start.shape)
     for j in np.flatnonzero(~settles):
